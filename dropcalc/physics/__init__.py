@@ -1,0 +1,1 @@
+"""The physics core: SI floats and numpy arrays in, SI floats and numpy arrays out."""
