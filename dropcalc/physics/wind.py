@@ -54,6 +54,9 @@ MAXIMUM_WIND_SPEED = 70.0
 EXPONENT_RANGE = (0.0, 0.6)
 #: Allowed range of the roughness length [m].
 ROUGHNESS_LENGTH_RANGE = (1e-4, 3.0)
+#: Default height below which a power law without a terrain class is held constant [m]:
+#: the smallest z_min of EN 1991-1-4:2005 Table 4.1.
+POWER_LAW_MINIMUM_HEIGHT = 1.0
 #: Allowed range of the height below which the profile is held constant [m].
 MINIMUM_HEIGHT_RANGE = (0.0, 50.0)
 
@@ -773,7 +776,7 @@ def wind_spec(
     minimum_height : float or None
         Height below which the speed is held constant, between 0 and 50 m and above z0 for the
         log law; None for the terrain's value, else the z_min of the EN category nearest in
-        z0 (log law) or 0 (power law). [m]
+        z0 (log law) or 1 m (power law; uniform: 0). [m]
 
     Returns
     -------
@@ -850,6 +853,10 @@ def wind_spec(
         elif profile == "log":
             assert roughness_length is not None
             minimum_height = _nearest_en_minimum_height(roughness_length)
+        elif profile == "power":
+            # The power law has an infinite slope at the ground; hold it below 1 m, the
+            # smallest z_min of EN 1991-1-4 Table 4.1 (categories 0 and I).
+            minimum_height = POWER_LAW_MINIMUM_HEIGHT
         else:
             minimum_height = 0.0
     if profile == "log" and roughness_length is not None and minimum_height <= roughness_length:

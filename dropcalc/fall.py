@@ -1,0 +1,249 @@
+"""One object, one release: the computation behind ``dropcalc fall``.
+
+:class:`FallCase` holds validated inputs in SI units; :func:`solve_fall` runs the physics core
+for the given wind and, when that wind is a mean speed, for its gust as well, and returns a
+:class:`FallResult` whose :meth:`FallResult.to_json` is the stable JSON contract.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+from typing import Any
+
+import numpy as np
+
+from dropcalc.errors import InputError, require_finite_positive
+from dropcalc.physics.atmosphere import AirState, air_state
+from dropcalc.physics.drag import drag_parameter
+from dropcalc.physics.impact import Impact, impact_from_solution
+from dropcalc.physics.release import Release, describe, initial_velocity
+from dropcalc.physics.trajectory import WindField, solve_falls
+from dropcalc.physics.wind import WindSpec, wind_spec
+from dropcalc.texts import CAUTION_SHORT
+
+#: Largest release height the model accepts [m]: the ISA troposphere and the point-mass model
+#: are not meant for more (the site elevation is limited separately to 5000 m).
+MAX_RELEASE_HEIGHT = 5000.0
+#: Mass range accepted [kg]: a 1 g fragment up to a 100 t lifted load.
+MASS_RANGE = (1e-4, 1e5)
+#: Drag area range accepted [m^2].
+DRAG_AREA_RANGE = (1e-7, 200.0)
+#: Contact area range accepted [m^2].
+CONTACT_AREA_RANGE = (1e-8, 10.0)
+#: Horizontal distance after which an object still airborne is reported as carried away [m].
+CARRIED_AWAY_DISTANCE = 5000.0
+
+
+def _check_range(name: str, value: float, low: float, high: float, unit: str) -> float:
+    v = float(value)
+    if not (math.isfinite(v) and low <= v <= high):
+        raise InputError(
+            f"{name} must be a finite value from {low:g} to {high:g} {unit}; got {v:g} {unit}"
+        )
+    return v
+
+
+@dataclass(frozen=True)
+class FallCase:
+    """Validated inputs of one fall, SI units.
+
+    Attributes
+    ----------
+    mass : float
+        Mass of the object. [kg]
+    drag_area : float
+        Drag area C_d A of the object. [m^2]
+    height : float
+        Release height above the landing surface. [m]
+    release : Release
+        How the object leaves the edge.
+    air : AirState
+        Air density and its basis.
+    wind : WindSpec
+        Wind at 10 m, mean or gust, profile and direction.
+    gravity : float
+        Acceleration of gravity. [m/s^2]
+    edge_azimuth : float
+        Compass direction the edge faces (away from the structure). [deg]
+    contact_area : float or None
+        Area that strikes first, for energy per area. [m^2]
+    """
+
+    mass: float
+    drag_area: float
+    height: float
+    release: Release = field(default_factory=Release)
+    air: AirState = field(default_factory=air_state)
+    wind: WindSpec = field(default_factory=lambda: wind_spec(0.0, from_direction=270.0))
+    gravity: float = 9.80665
+    edge_azimuth: float = 90.0
+    contact_area: float | None = None
+
+    def __post_init__(self) -> None:
+        _check_range("mass", self.mass, *MASS_RANGE, "kg")
+        _check_range("drag_area", self.drag_area, *DRAG_AREA_RANGE, "m²")
+        require_finite_positive("height", self.height, "m")
+        _check_range("height", self.height, 0.0, MAX_RELEASE_HEIGHT, "m")
+        if self.contact_area is not None:
+            _check_range("contact_area", self.contact_area, *CONTACT_AREA_RANGE, "m²")
+        if not math.isfinite(self.edge_azimuth):
+            raise InputError(
+                f"edge_azimuth must be a finite angle in degrees; got {self.edge_azimuth}"
+            )
+
+
+@dataclass(frozen=True)
+class WindCase:
+    """One wind speed the fall was solved for."""
+
+    label: str
+    speed_10m: float
+    impact: Impact
+
+
+@dataclass(frozen=True)
+class FallResult:
+    """Result of :func:`solve_fall`: the case, the impact at the given wind, and at its gust."""
+
+    case: FallCase
+    given: WindCase
+    gust: WindCase | None
+    warnings: tuple[str, ...]
+
+    def to_json(self) -> dict[str, Any]:
+        """Return the JSON contract (SI, snake case with unit suffixes; see DESIGN.md)."""
+        imp = self.given.impact
+        case = self.case
+
+        def value(array: np.ndarray | None) -> float | None:
+            if array is None:
+                return None
+            v = float(array[0])
+            return v if math.isfinite(v) else None
+
+        outward = np.radians(case.edge_azimuth)
+        drift = value(imp.drift)
+        away = None
+        if drift is not None:
+            az = np.radians(float(imp.drift_azimuth[0]))
+            away = drift * float(np.cos(az - outward))
+        epa = value(imp.energy_per_area)
+        out: dict[str, Any] = {
+            "landed": bool(imp.landed[0]),
+            "impact_speed_m_s": value(imp.impact_speed),
+            "impact_energy_j": value(imp.kinetic_energy),
+            "fall_time_s": value(imp.fall_time),
+            "drift_m": drift,
+            "terminal_speed_m_s": value(imp.terminal_speed),
+            "impact_angle_deg": value(imp.impact_angle),
+            "air_density_kg_m3": case.air.density,
+            "vertical_impact_speed_m_s": value(imp.vertical_speed),
+            "horizontal_impact_speed_m_s": value(imp.horizontal_speed),
+            "momentum_kg_m_s": value(imp.momentum),
+            "drift_azimuth_deg": value(imp.drift_azimuth),
+            "drift_away_from_edge_m": away,
+            "terminal_speed_fraction": value(imp.terminal_fraction),
+            "height_to_95_percent_terminal_m": value(imp.height_to_95_percent),
+            "energy_per_contact_area_j_m2": epa,
+            "energy_per_contact_area_j_cm2": None if epa is None else epa / 1e4,
+            "mass_kg": case.mass,
+            "drag_area_m2": case.drag_area,
+            "contact_area_m2": case.contact_area,
+            "release_height_m": case.height,
+            "release_mode": case.release.mode,
+            "release": describe(case.release, case.gravity),
+            "edge_azimuth_deg": case.edge_azimuth,
+            "gravity_m_s2": case.gravity,
+            "air_basis": case.air.basis,
+            "wind_speed_10m_m_s": case.wind.speed_10m,
+            "wind_speed_kind": case.wind.kind,
+            "wind_from_deg": case.wind.from_direction_deg,
+            "wind_profile": case.wind.profile,
+            "wind": case.wind.describe(),
+            "wind_used": self.given.label,
+            "gust_speed_10m_m_s": None if self.gust is None else self.gust.speed_10m,
+            "gust_drift_m": None if self.gust is None else value(self.gust.impact.drift),
+            "gust_impact_energy_j": (
+                None if self.gust is None else value(self.gust.impact.kinetic_energy)
+            ),
+            "warnings": list(self.warnings),
+            "caution": CAUTION_SHORT,
+        }
+        return out
+
+
+def _wind_field(wind: WindSpec, speeds: np.ndarray) -> WindField:
+    east, north = wind.towards_unit_vector()
+    return WindField(
+        speed_10m=speeds,
+        toward_east=east,
+        toward_north=north,
+        profile=wind.profile,
+        exponent=wind.exponent or 0.0,
+        roughness_length=wind.roughness_length or 0.05,
+        minimum_height=wind.minimum_height,
+    )
+
+
+def solve_fall(case: FallCase) -> FallResult:
+    """Solve one fall at the given wind and, for a mean wind, at its gust.
+
+    Parameters
+    ----------
+    case : FallCase
+        Validated inputs.
+
+    Returns
+    -------
+    FallResult
+        Impact quantities and warnings (carried away, windborne, gust estimate).
+    """
+    k = float(drag_parameter(case.air.density, case.drag_area, case.mass))
+    speeds = [case.wind.speed_10m]
+    gust_speed = None
+    if case.wind.kind == "mean" and case.wind.speed_10m > 0:
+        gust_speed = case.wind.gust_speed_10m()
+        speeds.append(gust_speed)
+    speeds_arr = np.array(speeds)
+    v0 = np.asarray(initial_velocity(case.release, case.edge_azimuth, case.gravity), dtype=float)
+    wind_field = _wind_field(case.wind, speeds_arr)
+    solution = solve_falls(
+        case.height,
+        v0.reshape(3, 1),
+        k,
+        gravity=case.gravity,
+        wind=wind_field,
+        max_distance=CARRIED_AWAY_DISTANCE,
+    )
+    impact = impact_from_solution(
+        solution, case.mass, k, case.gravity, wind_field, case.contact_area
+    )
+    impacts = [_pick(impact, i) for i in range(len(speeds))]
+    warnings: list[str] = []
+    if not impacts[0].landed[0]:
+        warnings.append(
+            f"carried away: still airborne {CARRIED_AWAY_DISTANCE / 1000:g} km downwind; "
+            "no landing point or impact can be given for this wind (a windborne object: the "
+            "drop zone cannot be bounded by this model)"
+        )
+    vt = float(impacts[0].terminal_speed[0])
+    if case.wind.speed_10m > 0 and vt < case.wind.speed_10m:
+        warnings.append(
+            f"windborne: terminal speed {vt:.2g} m/s is below the wind speed; light, flat or "
+            "sheet-like objects can glide and fly further than this point-mass model predicts"
+        )
+    label = f"{case.wind.kind} {case.wind.speed_10m:g} m/s at 10 m"
+    given = WindCase(label, case.wind.speed_10m, impacts[0])
+    gust = None
+    if gust_speed is not None:
+        gust = WindCase(f"gust {gust_speed:.3g} m/s at 10 m (estimated)", gust_speed, impacts[1])
+    return FallResult(case, given, gust, tuple(warnings))
+
+
+def _pick(impact: Impact, i: int) -> Impact:
+    """Impact of trajectory ``i`` only (arrays of length 1)."""
+    values = {}
+    for name, array in vars(impact).items():
+        values[name] = None if array is None else np.asarray(array)[i : i + 1]
+    return Impact(**values)

@@ -1,0 +1,113 @@
+"""Terminal text for results: plain, aligned tables with units (SI or imperial)."""
+
+from __future__ import annotations
+
+import math
+import textwrap
+
+import numpy as np
+
+from dropcalc.fall import FallResult
+from dropcalc.physics.impact import Impact
+from dropcalc.texts import CAUTION_SHORT
+from dropcalc.units import format_quantity
+
+
+def _v(array: np.ndarray | None) -> float:
+    return float("nan") if array is None else float(np.asarray(array)[0])
+
+
+def _fmt(value: float, kind: str, system: str, digits: int = 3) -> str:
+    if not math.isfinite(value):
+        return "—"
+    return format_quantity(value, kind, system, digits)
+
+
+def _impact_rows(imp: Impact, system: str, edge_azimuth: float) -> list[tuple[str, str]]:
+    if not bool(imp.landed[0]):
+        return [("Landing", "none: carried away by the wind (see warning)")]
+    drift = _v(imp.drift)
+    azimuth = _v(imp.drift_azimuth)
+    away = drift * math.cos(math.radians(azimuth - edge_azimuth))
+    epa = _v(imp.energy_per_area)
+    vt = _v(imp.terminal_speed)
+    return [
+        ("Impact speed", _fmt(_v(imp.impact_speed), "speed", system)),
+        (
+            "  vertical / horizontal",
+            f"{_fmt(_v(imp.vertical_speed), 'speed', system)} / "
+            f"{_fmt(_v(imp.horizontal_speed), 'speed', system)}",
+        ),
+        ("Impact angle from vertical", f"{_v(imp.impact_angle):.1f}°"),
+        ("Impact energy", _fmt(_v(imp.kinetic_energy), "energy", system)),
+        ("Momentum", _fmt(_v(imp.momentum), "momentum", system)),
+        (
+            "Energy per contact area",
+            _fmt(epa, "energy_per_area", system) if math.isfinite(epa) else "— (no contact area)",
+        ),
+        ("Fall time", f"{_v(imp.fall_time):.3g} s"),
+        (
+            "Drift to first contact",
+            f"{_fmt(drift, 'length', system)} towards {azimuth:.0f}°"
+            + (f" ({_fmt(away, 'length', system)} out from the edge)" if drift > 0 else ""),
+        ),
+        (
+            "Terminal speed in air",
+            f"{_fmt(vt, 'speed', system)}, {100 * _v(imp.terminal_fraction):.0f} % of it "
+            "reached at impact",
+        ),
+        ("Fall to reach 95 % of it", _fmt(_v(imp.height_to_95_percent), "length", system)),
+    ]
+
+
+def render_fall(result: FallResult, system: str = "si") -> str:
+    """Readable multi-line summary of one fall, with units and the caution.
+
+    Parameters
+    ----------
+    result : FallResult
+        Output of :func:`dropcalc.fall.solve_fall`.
+    system : {"si", "imperial"}
+        Display units.
+    """
+    case = result.case
+    contact = (
+        _fmt(case.contact_area, "area", system) if case.contact_area is not None else "not given"
+    )
+    lines = ["dropcalc fall: one object, one release", ""]
+    header = [
+        ("Object", f"mass {_fmt(case.mass, 'mass', system)}, drag area Cd·A "
+                   f"{_fmt(case.drag_area, 'area', system)}, contact area {contact}"),
+        ("Release", f"{result.to_json()['release']}, from "
+                    f"{_fmt(case.height, 'length', system)} above the landing surface; "
+                    f"the edge faces {case.edge_azimuth:.0f}°"),
+        ("Air", f"{_fmt(case.air.density, 'density', system, 4)} ({case.air.basis}); "
+                f"g = {case.gravity:.5g} m/s²"),
+        ("Wind", case.wind.describe()),
+    ]  # fmt: skip
+    for label, text in header:
+        wrapped = textwrap.wrap(text, 76)
+        lines.append(f"  {label:<9}{wrapped[0]}")
+        lines.extend(f"  {'':<9}{w}" for w in wrapped[1:])
+    lines.append("")
+    columns = [
+        (f"at {result.given.label}", _impact_rows(result.given.impact, system, case.edge_azimuth))
+    ]
+    if result.gust is not None:
+        columns.append(
+            (f"at {result.gust.label}", _impact_rows(result.gust.impact, system, case.edge_azimuth))
+        )
+    labels = [label for label, _ in columns[0][1]]
+    width = max(len(label) for label in labels) + 2
+    col_width = max(
+        max(len(h) for h, _ in columns), *(len(v) for _, rows in columns for _, v in rows)
+    )
+    lines.append("  " + " " * width + "   ".join(f"{h:<{col_width}}" for h, _ in columns).rstrip())
+    for i, label in enumerate(labels):
+        cells = [rows[i][1] if i < len(rows) else "" for _, rows in columns]
+        lines.append(
+            f"  {label:<{width}}" + "   ".join(f"{c:<{col_width}}" for c in cells).rstrip()
+        )
+    lines.append("")
+    lines.extend(textwrap.wrap("Caution: " + CAUTION_SHORT, 90))
+    return "\n".join(lines)
