@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import json
 import sys
-from enum import Enum
+from enum import StrEnum
 from typing import Annotated
 
 import typer
@@ -29,14 +29,14 @@ def _root() -> None:
     """Dropped-object physics for work at height."""
 
 
-class UnitSystem(str, Enum):
+class UnitSystem(StrEnum):
     """Display unit systems."""
 
     si = "si"
     imperial = "imperial"
 
 
-class ReleaseMode(str, Enum):
+class ReleaseMode(StrEnum):
     """How the object leaves the edge."""
 
     drop = "drop"
@@ -45,7 +45,7 @@ class ReleaseMode(str, Enum):
     roof_slide = "roof-slide"
 
 
-class ProfileName(str, Enum):
+class ProfileName(StrEnum):
     """Wind profile laws."""
 
     uniform = "uniform"
@@ -53,15 +53,49 @@ class ProfileName(str, Enum):
     log = "log"
 
 
-class SpeedKind(str, Enum):
+class SpeedKind(StrEnum):
     """Whether a wind speed is a mean or a gust."""
 
     mean = "mean"
     gust = "gust"
 
 
+#: Model field names as the user knows them on the command line.
+_OPTION_OF_FIELD = {
+    "mass": "--mass",
+    "drag_area": "--drag-area",
+    "height": "--height",
+    "contact_area": "--contact-area",
+    "edge_azimuth": "--edge-azimuth",
+    "speed_10m": "--wind",
+    "kind": "--wind-kind",
+    "from_direction": "--wind-from",
+    "exponent": "--wind-exponent",
+    "roughness_length": "--roughness",
+    "minimum_height": "--roughness",
+    "elevation": "--elevation",
+    "temperature": "--air-temp",
+    "pressure": "--pressure",
+    "relative_humidity": "--humidity",
+    "density": "--air-density",
+    "latitude": "--latitude",
+    "release_speed": "--release-speed",
+    "release_angle": "--release-angle",
+    "roof_pitch": "--roof-pitch",
+    "roof_length": "--roof-length",
+    "friction": "--friction",
+    "carrier_velocity": "--carrier-velocity",
+    "mode": "--release",
+    "terrain": "--terrain",
+}
+
+
 def _fail(message: str) -> None:
-    """Print one error line to stderr and exit with code 2."""
+    """Print one error line to stderr, naming the option where the model named a field."""
+    first = message.split(" ", 1)[0].rstrip(":")
+    option = _OPTION_OF_FIELD.get(first)
+    if option is not None:
+        message = f"{option}: {message}"
     typer.echo(f"dropcalc: error: {message}", err=True)
     raise typer.Exit(2)
 
@@ -255,9 +289,6 @@ def fall(
         typer.echo(json.dumps(result.to_json(), indent=2, allow_nan=False))
     else:
         typer.echo(render_fall(result, units.value))
-    for warning in result.warnings:
-        if not as_json:
-            typer.echo(f"warning: {warning}", err=True)
 
 
 def main() -> None:

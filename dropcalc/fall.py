@@ -95,7 +95,10 @@ class FallCase:
 
 @dataclass(frozen=True)
 class WindCase:
-    """One wind speed the fall was solved for."""
+    """One wind speed the fall was solved for.
+
+    ``label`` is "mean", "gust" (as given by the user) or "estimated gust" (from a mean).
+    """
 
     label: str
     speed_10m: float
@@ -161,7 +164,7 @@ class FallResult:
             "wind_from_deg": case.wind.from_direction_deg,
             "wind_profile": case.wind.profile,
             "wind": case.wind.describe(),
-            "wind_used": self.given.label,
+            "wind_used": f"{self.given.label} {self.given.speed_10m:g} m/s at 10 m",
             "gust_speed_10m_m_s": None if self.gust is None else self.gust.speed_10m,
             "gust_drift_m": None if self.gust is None else value(self.gust.impact.drift),
             "gust_impact_energy_j": (
@@ -233,11 +236,10 @@ def solve_fall(case: FallCase) -> FallResult:
             f"windborne: terminal speed {vt:.2g} m/s is below the wind speed; light, flat or "
             "sheet-like objects can glide and fly further than this point-mass model predicts"
         )
-    label = f"{case.wind.kind} {case.wind.speed_10m:g} m/s at 10 m"
-    given = WindCase(label, case.wind.speed_10m, impacts[0])
+    given = WindCase(case.wind.kind, case.wind.speed_10m, impacts[0])
     gust = None
     if gust_speed is not None:
-        gust = WindCase(f"gust {gust_speed:.3g} m/s at 10 m (estimated)", gust_speed, impacts[1])
+        gust = WindCase("estimated gust", gust_speed, impacts[1])
     return FallResult(case, given, gust, tuple(warnings))
 
 

@@ -48,13 +48,12 @@ def _impact_rows(imp: Impact, system: str, edge_azimuth: float) -> list[tuple[st
         ("Fall time", f"{_v(imp.fall_time):.3g} s"),
         (
             "Drift to first contact",
-            f"{_fmt(drift, 'length', system)} towards {azimuth:.0f}°"
-            + (f" ({_fmt(away, 'length', system)} out from the edge)" if drift > 0 else ""),
+            f"{_fmt(drift, 'length', system)} to {azimuth:.0f}°"
+            + (f", {_fmt(away, 'length', system)} out" if drift > 0 else ""),
         ),
         (
             "Terminal speed in air",
-            f"{_fmt(vt, 'speed', system)}, {100 * _v(imp.terminal_fraction):.0f} % of it "
-            "reached at impact",
+            f"{_fmt(vt, 'speed', system)} ({100 * _v(imp.terminal_fraction):.0f} % at impact)",
         ),
         ("Fall to reach 95 % of it", _fmt(_v(imp.height_to_95_percent), "length", system)),
     ]
@@ -75,6 +74,11 @@ def render_fall(result: FallResult, system: str = "si") -> str:
         _fmt(case.contact_area, "area", system) if case.contact_area is not None else "not given"
     )
     lines = ["dropcalc fall: one object, one release", ""]
+    lines.extend(
+        line for warning in result.warnings for line in textwrap.wrap("WARNING: " + warning, 90)
+    )
+    if result.warnings:
+        lines.append("")
     header = [
         ("Object", f"mass {_fmt(case.mass, 'mass', system)}, drag area Cd·A "
                    f"{_fmt(case.drag_area, 'area', system)}, contact area {contact}"),
@@ -90,13 +94,11 @@ def render_fall(result: FallResult, system: str = "si") -> str:
         lines.append(f"  {label:<9}{wrapped[0]}")
         lines.extend(f"  {'':<9}{w}" for w in wrapped[1:])
     lines.append("")
-    columns = [
-        (f"at {result.given.label}", _impact_rows(result.given.impact, system, case.edge_azimuth))
-    ]
-    if result.gust is not None:
-        columns.append(
-            (f"at {result.gust.label}", _impact_rows(result.gust.impact, system, case.edge_azimuth))
-        )
+    columns = []
+    for wind_case in (result.given, result.gust):
+        if wind_case is not None:
+            heading = f"{wind_case.label} {_fmt(wind_case.speed_10m, 'speed', system)}"
+            columns.append((heading, _impact_rows(wind_case.impact, system, case.edge_azimuth)))
     labels = [label for label, _ in columns[0][1]]
     width = max(len(label) for label in labels) + 2
     col_width = max(
