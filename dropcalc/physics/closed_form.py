@@ -113,7 +113,8 @@ def vertical_fall(
 
         x = gd * hd / vt**2  # dimensionless drop
         ratio = wd / vt
-        speed[drag] = vt * np.sqrt(1.0 - (1.0 - ratio**2) * np.exp(-2.0 * x))
+        # v_t^2 - (v_t^2 - w0^2) e^(-2x), written with expm1 so that x -> 0 keeps its digits.
+        speed[drag] = vt * np.sqrt(ratio**2 * np.exp(-2.0 * x) - np.expm1(-2.0 * x))
         tau = vt / gd
         t_fall = np.empty_like(hd)
         slow = ratio < 1.0

@@ -142,7 +142,7 @@ def impact_from_solution(
         momentum=m * speed,
         fall_time=solution.time * nan_unless_landed,
         drift=drift,
-        drift_azimuth=np.where(drift > 0, azimuth, 0.0),
+        drift_azimuth=np.where(drift > 0, azimuth, 0.0) * nan_unless_landed,
         terminal_speed=terminal,
         terminal_fraction=fraction,
         height_to_95_percent=HEIGHT_FOR_95_PERCENT * terminal**2 / g,

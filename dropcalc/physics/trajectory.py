@@ -126,32 +126,41 @@ class FallSolution:
     steps: NDArray[np.int64]
 
 
+@dataclass(frozen=True)
+class _Model:
+    """What the right-hand side needs besides arrays: the wind profile law and the drag law."""
+
+    profile: str
+    linear: bool = False
+
+
 def _accelerations(
     z: NDArray[np.float64],
     vx: NDArray[np.float64],
     vy: NDArray[np.float64],
     vz: NDArray[np.float64],
     params: NDArray[np.float64],
-    profile: str,
+    model: _Model,
 ) -> tuple[NDArray[np.float64], NDArray[np.float64], NDArray[np.float64]]:
     """Acceleration components [m/s^2]: -g e_z - k |v - w| (v - w)."""
-    if profile == "uniform":
+    if model.profile == "uniform":
         rx = vx - params[_WX]
         ry = vy - params[_WY]
     else:
-        ratio = speed_ratio(z, profile, params[_EXP], params[_Z0], params[_ZMIN])
+        ratio = speed_ratio(z, model.profile, params[_EXP], params[_Z0], params[_ZMIN])
         rx = vx - params[_WX] * ratio
         ry = vy - params[_WY] * ratio
-    ks = params[_K] * np.sqrt(rx * rx + ry * ry + vz * vz)
+    speed = 1.0 if model.linear else np.sqrt(rx * rx + ry * ry + vz * vz)
+    ks = params[_K] * speed
     return -ks * rx, -ks * ry, -params[_G] - ks * vz
 
 
 def _rhs(
-    state: NDArray[np.float64], params: NDArray[np.float64], profile: str, out: NDArray
+    state: NDArray[np.float64], params: NDArray[np.float64], model: _Model, out: NDArray
 ) -> None:
     """Write d(state)/dt into ``out``; state rows are x, y, z, vx, vy, vz."""
     out[0:3] = state[3:6]
-    ax, ay, az = _accelerations(state[2], state[3], state[4], state[5], params, profile)
+    ax, ay, az = _accelerations(state[2], state[3], state[4], state[5], params, model)
     out[3] = ax
     out[4] = ay
     out[5] = az
@@ -208,6 +217,7 @@ def solve_falls(
     max_time: float = 3600.0,
     max_distance: float = 20000.0,
     closed_form: bool = True,
+    drag_law: str = "quadratic",
 ) -> FallSolution:
     """Integrate many falls at once to their first ground contact.
 
@@ -231,6 +241,11 @@ def solve_falls(
         Trajectories carried further than this horizontally are abandoned. [m]
     closed_form : bool
         Use the exact closed form where the motion relative to the air is vertical.
+    drag_law : {"quadratic", "linear"}
+        "quadratic" (the physics of falling objects, Re > 1e3) or "linear" (Stokes drag,
+        acceleration -b (v - w) with ``drag_parameter`` = b in 1/s). The linear law separates
+        into independent axes with closed-form solutions, which makes it a check of the
+        vector integrator; it is not meant for site objects.
 
     Returns
     -------
@@ -244,6 +259,10 @@ def solve_falls(
         models validate user input before it reaches the core).
     """
     wind = wind or WindField()
+    if drag_law not in ("quadratic", "linear"):
+        raise ValueError(f"drag_law must be 'quadratic' or 'linear'; got {drag_law!r}")
+    linear = drag_law == "linear"
+    model = _Model(wind.profile, linear)
     v0 = np.asarray(initial_velocity, dtype=float)
     if v0.ndim == 1:
         v0 = v0[:, None]
@@ -277,11 +296,15 @@ def solve_falls(
 
     wx, wy = u10 * ex, u10 * ey
     todo = np.ones(n, dtype=bool)
-    if closed_form:
+    if closed_form and not linear:
         uniform_air = (wind.profile == "uniform") | (u10 == 0.0)
         vertical = uniform_air & (vx0 == wx) & (vy0 == wy)
         if np.any(vertical):
             t_fall, speed = vertical_fall(h0[vertical], -vz0[vertical], k[vertical], g[vertical])
+            # Falls beyond the limits go to the integrator, which reports where they stopped.
+            within = (t_fall <= max_time) & (np.hypot(wx, wy)[vertical] * t_fall <= max_distance)
+            vertical[vertical] = within
+            t_fall, speed = t_fall[within], speed[within]
             time[vertical] = t_fall
             position[0, vertical] = wx[vertical] * t_fall
             position[1, vertical] = wy[vertical] * t_fall
@@ -293,7 +316,7 @@ def solve_falls(
 
     # Rise above the release point (vertical, still air) bounds the height to fall.
     with np.errstate(divide="ignore", invalid="ignore"):
-        terminal_sq = g / k
+        terminal_sq = (g / k) ** 2 if linear else g / k
         rise = np.where(vz0 > 0, terminal_sq / (2 * g) * np.log1p(vz0 * vz0 / terminal_sq), 0.0)
         fall_height = g * (h0 + rise) / terminal_sq
     stiff = fall_height > STIFF_FALL_HEIGHT
@@ -301,7 +324,7 @@ def solve_falls(
         lanes = np.flatnonzero(todo & (stiff == use_implicit))
         if lanes.size:
             _integrate(
-                lanes, h0, k, g, wx, wy, alpha, z0, zmin, vx0, vy0, vz0, wind.profile,
+                lanes, h0, k, g, wx, wy, alpha, z0, zmin, vx0, vy0, vz0, model,
                 tolerance, max_time, max_distance, time, position, velocity, landed, steps,
                 use_implicit,
             )  # fmt: skip
@@ -327,7 +350,7 @@ def _explicit_step(
     state: NDArray[np.float64],
     slope0: NDArray[np.float64],
     params: NDArray[np.float64],
-    profile: str,
+    model: _Model,
     h: NDArray[np.float64],
     tolerance: float,
 ) -> tuple[NDArray[np.float64], NDArray[np.float64], NDArray[np.float64]]:
@@ -337,13 +360,37 @@ def _explicit_step(
     stages[0] = slope0
     trial = np.empty((6, m))
     for s in range(1, 6):
-        np.multiply(h, np.tensordot(_A_ROWS[s], stages[:s], axes=(0, 0)), out=trial)
+        _combine(_A_ROWS[s], stages, trial)
+        trial *= h
         trial += state
-        _rhs(trial, params, profile, stages[s])
-    new_state = state + h * np.tensordot(_B, stages[:6], axes=(0, 0))
-    _rhs(new_state, params, profile, stages[6])
-    error = h * np.tensordot(_E, stages, axes=(0, 0))
+        _rhs(trial, params, model, stages[s])
+    new_state = np.empty((6, m))
+    _combine(_B, stages, new_state)
+    new_state *= h
+    new_state += state
+    _rhs(new_state, params, model, stages[6])
+    error = np.empty((6, m))
+    _combine(_E, stages, error)
+    error *= h
     return new_state, stages[6], _error_ratio(error, state, new_state, params, tolerance)
+
+
+def _combine(weights: NDArray[np.float64], stages: NDArray[np.float64], out: NDArray) -> None:
+    """Write sum_i weights[i] * stages[i] into ``out``, skipping zero weights.
+
+    Plain in-place multiply-adds: faster here than ``tensordot``, which copies its operands.
+    """
+    first = True
+    tmp = np.empty_like(out)
+    for w, stage in zip(weights, stages, strict=False):
+        if w == 0.0:
+            continue
+        if first:
+            np.multiply(stage, w, out=out)
+            first = False
+        else:
+            np.multiply(stage, w, out=tmp)
+            out += tmp
 
 
 #: Step-number sequence of the linearly implicit Euler extrapolation (harmonic sequence).
@@ -351,25 +398,29 @@ _EXTRAPOLATION_SEQUENCE = (1, 2, 3, 4, 5, 6)
 
 
 def _velocity_jacobian(
-    state: NDArray[np.float64], params: NDArray[np.float64], profile: str
+    state: NDArray[np.float64], params: NDArray[np.float64], model: _Model
 ) -> tuple[NDArray[np.float64], NDArray[np.float64], NDArray[np.float64], NDArray[np.float64]]:
     """Pieces of the Jacobian of the acceleration a(z, v).
 
     d a / d v = -k (|u| I + u u^T / |u|) with u = v - w(z); d a / d z = -(d a / d v) dw/dz.
     Returns k |u|, k / |u|, u (3, m) and d a / d z (3, m).
     """
-    ratio = speed_ratio(state[2], profile, params[_EXP], params[_Z0], params[_ZMIN])
+    ratio = speed_ratio(state[2], model.profile, params[_EXP], params[_Z0], params[_ZMIN])
     u = np.empty((3, state.shape[1]))
     u[0] = state[3] - params[_WX] * ratio
     u[1] = state[4] - params[_WY] * ratio
     u[2] = state[5]
     speed = np.sqrt(np.sum(u * u, axis=0))
     k = params[_K]
-    k_speed = k * speed
-    k_over_speed = np.where(speed > 0.0, k / np.where(speed > 0.0, speed, 1.0), 0.0)
+    if model.linear:  # d a / d v = -b I
+        k_speed = k.copy()
+        k_over_speed = np.zeros_like(k)
+    else:
+        k_speed = k * speed
+        k_over_speed = np.where(speed > 0.0, k / np.where(speed > 0.0, speed, 1.0), 0.0)
     dz = np.zeros((3, state.shape[1]))
-    if profile != "uniform":
-        slope = speed_ratio_slope(state[2], profile, params[_EXP], params[_Z0], params[_ZMIN])
+    if model.profile != "uniform":
+        slope = speed_ratio_slope(state[2], model.profile, params[_EXP], params[_Z0], params[_ZMIN])
         wpx, wpy = params[_WX] * slope, params[_WY] * slope
         u_dot_wp = u[0] * wpx + u[1] * wpy
         dz[0] = k_speed * wpx + k_over_speed * u[0] * u_dot_wp
@@ -382,7 +433,7 @@ def _implicit_step(
     state: NDArray[np.float64],
     slope0: NDArray[np.float64],
     params: NDArray[np.float64],
-    profile: str,
+    model: _Model,
     h: NDArray[np.float64],
     tolerance: float,
 ) -> tuple[NDArray[np.float64], NDArray[np.float64], NDArray[np.float64]]:
@@ -398,7 +449,7 @@ def _implicit_step(
     With y = (r, v), J = [[0, I], [a_z e_z^T, a_v]]: dr = s (v + dv) and
     (I - s a_v - s^2 a_z e_z^T) dv = s a + s^2 a_z v_z, a 3x3 system per trajectory.
     """
-    k_speed, k_over_speed, u, dz = _velocity_jacobian(state, params, profile)
+    k_speed, k_over_speed, u, dz = _velocity_jacobian(state, params, model)
     table: list[NDArray[np.float64]] = []
     for j, n in enumerate(_EXTRAPOLATION_SEQUENCE):
         s = h / n
@@ -430,7 +481,7 @@ def _implicit_step(
         for i in range(n):
             if i:
                 f = np.empty_like(y)
-                _rhs(y, params, profile, f)
+                _rhs(y, params, model, f)
             bx = s * f[3] + s2 * dz[0] * y[5]
             by = s * f[4] + s2 * dz[1] * y[5]
             bz = s * f[5] + s2 * dz[2] * y[5]
@@ -451,7 +502,7 @@ def _implicit_step(
     new_state = table[-1]
     error = table[-1] - table[-2]
     slope_new = np.empty_like(new_state)
-    _rhs(new_state, params, profile, slope_new)
+    _rhs(new_state, params, model, slope_new)
     return new_state, slope_new, _error_ratio(error, state, new_state, params, tolerance)
 
 
@@ -473,7 +524,7 @@ def _integrate(
     vx0: NDArray[np.float64],
     vy0: NDArray[np.float64],
     vz0: NDArray[np.float64],
-    profile: str,
+    model: _Model,
     tolerance: float,
     max_time: float,
     max_distance: float,
@@ -513,24 +564,25 @@ def _integrate(
     speed0 = np.sqrt(vx0[lanes] ** 2 + vy0[lanes] ** 2 + vz0[lanes] ** 2)
     free_fall_speed = np.sqrt(2.0 * params[_G] * state[2])
     with np.errstate(divide="ignore"):
-        terminal = np.sqrt(params[_G] / params[_K])
+        terminal = params[_G] / params[_K] if model.linear else np.sqrt(params[_G] / params[_K])
     speed_scale = np.minimum(free_fall_speed, terminal) + speed0 + wind_speed
     params[_VEL_SCALE] = tolerance * speed_scale
     params[_POS_SCALE] = tolerance * np.maximum(state[2], 1.0)
     # First step: a small fraction of the shortest time scale (fall time, drag relaxation).
     fall_time = state[2] / np.maximum(speed_scale, 1e-3)
-    params[_H] = 0.01 * np.minimum(fall_time, terminal / params[_G])
+    relaxation = 1.0 / params[_K] if model.linear else terminal / params[_G]
+    params[_H] = 0.01 * np.minimum(fall_time, relaxation)
     ground_tolerance = 1e-3 * params[_POS_SCALE]
     # The profile's slope jumps at the minimum height: stop there once on the way down, so that
     # no step straddles the kink (both methods assume a smooth right-hand side within a step).
-    kinked = (profile != "uniform") & (params[_ZMIN] > 0.0) & (state[2] > params[_ZMIN])
+    kinked = (model.profile != "uniform") & (params[_ZMIN] > 0.0) & (state[2] > params[_ZMIN])
     params[_FLOOR] = np.where(kinked, params[_ZMIN], 0.0)
 
     slope = np.empty((6, m))
-    _rhs(state, params, profile, slope)
+    _rhs(state, params, model, slope)
     while m:
         h = params[_H]
-        new_state, new_slope, error_ratio = step(state, slope, params, profile, h, tolerance)
+        new_state, new_slope, error_ratio = step(state, slope, params, model, h, tolerance)
         accept = error_ratio <= 1.0
 
         floor = params[_FLOOR]
@@ -552,9 +604,9 @@ def _integrate(
             )
             new_h[crossed] = h[crossed] * theta
 
-        state[:, moved] = new_state[:, moved]
-        slope[:, moved] = new_slope[:, moved]
-        params[_T, moved] += h[moved]
+        np.copyto(state, new_state, where=moved)
+        np.copyto(slope, new_slope, where=moved)
+        params[_T] += np.where(moved, h, 0.0)
         params[_STEPS] += 1.0
         params[_H] = new_h
 
