@@ -45,7 +45,7 @@ def _impact_rows(imp: Impact, system: str, edge_azimuth: float) -> list[tuple[st
             "Energy per contact area",
             _fmt(epa, "energy_per_area", system) if math.isfinite(epa) else "— (no contact area)",
         ),
-        ("Fall time", f"{_v(imp.fall_time):.3g} s"),
+        ("Fall time", f"{_v(imp.fall_time):.2f} s"),
         (
             "Drift to first contact",
             f"{_fmt(drift, 'length', system)} to {azimuth:.0f}°"
