@@ -304,8 +304,18 @@ def test_beyond_max_time_is_not_landed() -> None:
 
 
 def test_closed_form_path_honours_max_time() -> None:
+    # The fast path must give the same verdict as the integrator (test above).
     solution = solve_falls(100.0, [0.0, 0.0, 0.0], 0.01, max_time=1.0)
     assert not solution.landed[0]
+
+
+def test_closed_form_path_honours_max_distance() -> None:
+    # Released moving with a uniform 10 m/s wind it drifts U t_fall = 53 m (wind-frame
+    # principle, REFERENCES.md §1; t_fall = 5.3 s); with max_distance 20 m it is not a landing.
+    wind = WindField(speed_10m=10.0)
+    solution = solve_falls(100.0, [10.0, 0.0, 0.0], 0.01, wind=wind, max_distance=20.0)
+    assert not solution.landed[0]
+    assert solution.position[2, 0] > 0.0
 
 
 def test_many_at_once_equals_one_at_a_time() -> None:
