@@ -1,0 +1,28 @@
+"""The engine benchmark still runs and still agrees with its reference (keeps it from rotting)."""
+
+from __future__ import annotations
+
+import json
+import subprocess
+import sys
+from pathlib import Path
+
+SCRIPT = Path(__file__).parents[1] / "benchmarks" / "engine.py"
+
+
+def test_engine_benchmark_runs_and_agrees_with_reference():
+    completed = subprocess.run(
+        [sys.executable, str(SCRIPT), "--cases", "200", "--reference-cases", "20", "--json"],
+        capture_output=True,
+        text=True,
+        timeout=120,
+        check=False,
+    )
+    assert completed.returncode == 0, completed.stderr
+    result = json.loads(completed.stdout)  # exactly one JSON object, nothing else
+    for key in ("trajectories_per_s", "reference_trajectories_per_s", "speedup"):
+        assert result[key] > 0.0, key
+    assert result["cases"] == 200
+    assert result["reference_cases"] == 20
+    # Agreement with scipy's DOP853 at rtol 1e-10 (benchmarks/cases.py).
+    assert 0.0 <= result["max_rel_error"] < 1e-4
