@@ -3,15 +3,42 @@
 from __future__ import annotations
 
 import json
+import math
 import sys
 from enum import StrEnum
-from typing import Annotated
+from typing import Annotated, Any
 
 import typer
+from typer.core import TyperGroup
 
 from dropcalc.errors import DropcalcError, InputError
 
+
+class _OneLineErrors(TyperGroup):
+    """Command group whose usage errors (bad choice, unknown option) are one line, exit 2."""
+
+    def main(self, *args: Any, standalone_mode: bool = True, **kwargs: Any) -> Any:
+        """Run the command line; print click's usage errors as one line instead of a box."""
+        try:
+            result = super().main(*args, standalone_mode=False, **kwargs)
+            code = result if isinstance(result, int) else 0
+        except typer.TyperException as exc:  # usage errors: bad choice, unknown option
+            message = exc.format_message().strip()
+            if message:  # empty when no arguments were given and the help was shown
+                typer.echo(f"dropcalc: error: {message}", err=True)
+            code = exc.exit_code
+        except typer.Exit as exc:
+            code = exc.exit_code
+        except typer.Abort:
+            typer.echo("dropcalc: aborted", err=True)
+            code = 1
+        if standalone_mode:
+            sys.exit(code)
+        return code
+
+
 app = typer.Typer(
+    cls=_OneLineErrors,
     name="dropcalc",
     help=(
         "Dropped-object physics for work at height: how far to keep the ground clear, how hard "
@@ -86,6 +113,7 @@ _OPTION_OF_FIELD = {
     "friction": "--friction",
     "carrier_velocity": "--carrier-velocity",
     "mode": "--release",
+    "rolling": "--rolling",
     "terrain": "--terrain",
 }
 
@@ -198,7 +226,8 @@ def fall(
         float | None, typer.Option(help="Friction coefficient on the roof (roof-slide).")
     ] = None,
     rolling: Annotated[
-        bool, typer.Option(help="Roof-slide: the object rolls (pipe, ball) instead of sliding.")
+        bool,
+        typer.Option("--rolling", help="Roof-slide: the object rolls (pipe, ball), not slides."),
     ] = False,
     carrier_velocity: Annotated[
         str | None,
@@ -214,6 +243,10 @@ def fall(
 ) -> None:
     """Solve one object falling from one release: impact speed, energy, time and drift."""
     try:
+        if not math.isfinite(edge_azimuth):
+            raise InputError(
+                f"--edge-azimuth must be a finite compass angle in degrees; got {edge_azimuth}"
+            )
         from dropcalc.fall import FallCase, solve_fall
         from dropcalc.physics.atmosphere import air_state
         from dropcalc.physics.gravity import gravity as local_g
@@ -233,7 +266,10 @@ def fall(
                 )
             if not (0 < cd <= 5):
                 raise InputError(f"--cd must be between 0 and 5 (exclusive of 0); got {cd:g}")
-            cda = cd * float(_q(area, "area", "--area"))
+            area_m2 = float(_q(area, "area", "--area"))
+            if not area_m2 > 0:
+                raise InputError(f"--area must be an area > 0 m²; got {area}")
+            cda = cd * area_m2
         else:
             cda = float(_q(drag_area, "area", "--drag-area"))
         elevation_m = float(_q(elevation, "length", "--elevation"))

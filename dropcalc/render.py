@@ -7,7 +7,7 @@ import textwrap
 
 import numpy as np
 
-from dropcalc.fall import FallResult
+from dropcalc.fall import FallCase, FallResult
 from dropcalc.physics.impact import Impact
 from dropcalc.texts import CAUTION_SHORT
 from dropcalc.units import format_quantity
@@ -59,6 +59,31 @@ def _impact_rows(imp: Impact, system: str, edge_azimuth: float) -> list[tuple[st
     ]
 
 
+def _wind_text(case: FallCase, system: str) -> str:
+    """The wind line in display units (WindSpec.describe() speaks SI only)."""
+    wind = case.wind
+    if wind.speed_10m == 0:
+        return "still air"
+    kind = "gust" if wind.kind == "gust" else "mean"
+    text = (
+        f"{_fmt(wind.speed_10m, 'speed', system)} {kind} at 10 m, from "
+        f"{wind.from_direction_deg:.0f}°; "
+    )
+    if wind.profile == "uniform":
+        text += "the same speed at every height"
+    elif wind.profile == "power":
+        text += f"power law, exponent {wind.exponent:.3g}"
+    else:
+        text += f"log law, roughness length {_fmt(wind.roughness_length or 0, 'length', system)}"
+    if wind.profile != "uniform" and wind.minimum_height > 0:
+        text += f", constant below {_fmt(wind.minimum_height, 'length', system)}"
+    if wind.terrain_key:
+        from dropcalc.physics.wind import terrain
+
+        text += f" ({terrain(wind.terrain_key).label})"
+    return text
+
+
 def render_fall(result: FallResult, system: str = "si") -> str:
     """Readable multi-line summary of one fall, with units and the caution.
 
@@ -87,7 +112,7 @@ def render_fall(result: FallResult, system: str = "si") -> str:
                     f"the edge faces {case.edge_azimuth:.0f}°"),
         ("Air", f"{_fmt(case.air.density, 'density', system, 4)} ({case.air.basis}); "
                 f"g = {case.gravity:.5g} m/s²"),
-        ("Wind", case.wind.describe()),
+        ("Wind", _wind_text(case, system)),
     ]  # fmt: skip
     for label, text in header:
         wrapped = textwrap.wrap(text, 76)
