@@ -5,7 +5,9 @@ from __future__ import annotations
 import json
 import math
 import sys
+from dataclasses import dataclass
 from enum import StrEnum
+from pathlib import Path
 from typing import Annotated, Any
 
 import typer
@@ -157,12 +159,163 @@ def _carrier(value: str | None) -> tuple[float, float, float]:
     return (speeds[0], speeds[1], speeds[2])  # type: ignore[return-value]
 
 
+# Options shared by several commands: declared once.
+WindOpt = Annotated[
+    str, typer.Option("--wind", help='Wind speed at 10 m, e.g. "12 m/s", "25 mph".')
+]
+WindKindOpt = Annotated[SpeedKind, typer.Option(help="Whether --wind is a mean speed or a gust.")]
+WindFromOpt = Annotated[
+    str | None,
+    typer.Option(
+        help="Compass direction the wind blows from (deg). Default: blowing the object straight "
+        "out from the edge, away from the structure."
+    ),
+]
+WindProfileOpt = Annotated[ProfileName | None, typer.Option(help="Wind profile with height.")]
+WindExponentOpt = Annotated[float | None, typer.Option(help="Power-law exponent of the profile.")]
+RoughnessOpt = Annotated[str | None, typer.Option(help='Log-law roughness length, e.g. "0.3 m".')]
+TerrainOpt = Annotated[
+    str | None,
+    typer.Option(help="Terrain class: en-0 … en-iv (EN 1991-1-4), asce-b/c/d (ASCE 7)."),
+]
+ElevationOpt = Annotated[str, typer.Option(help='Site elevation, e.g. "350 m".')]
+AirTempOpt = Annotated[str | None, typer.Option(help='Air temperature, e.g. "5 °C".')]
+PressureOpt = Annotated[str | None, typer.Option(help='Air pressure, e.g. "98 kPa".')]
+HumidityOpt = Annotated[str | None, typer.Option(help='Relative humidity, e.g. "60 %".')]
+AirDensityOpt = Annotated[
+    str | None, typer.Option(help='Air density; overrides the above, e.g. "1.2 kg/m3".')
+]
+LatitudeOpt = Annotated[
+    float | None, typer.Option(help="Latitude (deg) for local gravity; default standard g.")
+]
+EdgeAzimuthOpt = Annotated[
+    float, typer.Option(help="Compass direction the edge faces (deg); pushes go this way.")
+]
+UnitsOpt = Annotated[UnitSystem, typer.Option(help="Units for display.")]
+JsonOpt = Annotated[bool, typer.Option("--json", help="Print JSON only.")]
+LibraryOpt = Annotated[
+    Path | None,
+    typer.Option(help="Your own object file (TOML or CSV) extending or overriding the library."),
+]
+
+
+@dataclass(frozen=True)
+class _Environment:
+    air: Any
+    wind: Any
+    gravity: float
+
+
+def _environment(
+    *,
+    wind: str,
+    wind_kind: SpeedKind,
+    wind_from: str | None,
+    wind_profile: ProfileName | None,
+    wind_exponent: float | None,
+    roughness: str | None,
+    terrain: str | None,
+    elevation: str,
+    air_temp: str | None,
+    pressure: str | None,
+    humidity: str | None,
+    air_density: str | None,
+    latitude: float | None,
+    edge_azimuth: float,
+) -> _Environment:
+    """Air, wind and gravity from the shared options (raises InputError)."""
+    from dropcalc.physics.atmosphere import air_state
+    from dropcalc.physics.gravity import gravity as local_g
+    from dropcalc.physics.wind import wind_spec
+
+    if not math.isfinite(edge_azimuth):
+        raise InputError(
+            f"--edge-azimuth must be a finite compass angle in degrees; got {edge_azimuth}"
+        )
+    elevation_m = float(_q(elevation, "length", "--elevation"))
+    air = air_state(
+        elevation=elevation_m,
+        temperature=_q(air_temp, "temperature", "--air-temp"),
+        pressure=_q(pressure, "pressure", "--pressure"),
+        relative_humidity=_q(humidity, "fraction", "--humidity"),
+        density=_q(air_density, "density", "--air-density"),
+    )
+    default_from = (edge_azimuth + 180.0) % 360.0
+    wind_model = wind_spec(
+        float(_q(wind, "speed", "--wind")),
+        kind=wind_kind.value,
+        from_direction=_q(wind_from, "angle", "--wind-from") if wind_from else default_from,
+        profile=wind_profile.value if wind_profile else None,
+        exponent=wind_exponent,
+        roughness_length=_q(roughness, "length", "--roughness"),
+        terrain=terrain,
+    )
+    return _Environment(air, wind_model, local_g(latitude, elevation_m))
+
+
+def _release(
+    mode: str,
+    release_speed: str | None,
+    release_angle: str | None = None,
+    roof_pitch: str | None = None,
+    roof_length: str | None = None,
+    friction: float | None = None,
+    rolling: bool = False,
+    carrier_velocity: str | None = None,
+) -> Any:
+    """The release model from the options (raises InputError)."""
+    from dropcalc.physics.release import Release
+
+    speed = _q(release_speed, "speed", "--release-speed")
+    if mode in ("push", "throw") and speed is None:
+        raise InputError(f"--release {mode} needs --release-speed (e.g. 2 m/s)")
+    if mode == "roof-slide" and (roof_pitch is None or roof_length is None):
+        raise InputError("--release roof-slide needs --roof-pitch and --roof-length")
+    return Release(
+        mode=mode,
+        speed=speed or 0.0,
+        angle=_q(release_angle, "angle", "--release-angle") or 0.0,
+        roof_pitch=_q(roof_pitch, "angle", "--roof-pitch") or 0.0,
+        roof_length=_q(roof_length, "length", "--roof-length") or 0.0,
+        friction=friction if friction is not None else (0.4 if mode == "roof-slide" else 0.0),
+        rolling=rolling,
+        carrier_velocity=_carrier(carrier_velocity),
+    )
+
+
+def _drag_area(drag_area: str | None, cd: float | None, area: str | None) -> float | None:
+    """Cd·A from --drag-area, or from --cd and --area; None when none was given."""
+    if drag_area is not None and (cd is not None or area is not None):
+        raise InputError(
+            "give either --drag-area or --cd with --area, not both "
+            f"(got --drag-area {drag_area} and --cd {cd} --area {area})"
+        )
+    if drag_area is not None:
+        return float(_q(drag_area, "area", "--drag-area"))
+    if cd is None and area is None:
+        return None
+    if cd is None or area is None:
+        raise InputError("--cd and --area go together (or give --drag-area, Cd·A)")
+    if not (math.isfinite(cd) and 0 < cd <= 5):
+        raise InputError(f"--cd must be between 0 and 5 (exclusive of 0); got {cd:g}")
+    area_m2 = float(_q(area, "area", "--area"))
+    if not area_m2 > 0:
+        raise InputError(f"--area must be an area > 0 m²; got {area}")
+    return cd * area_m2
+
+
 @app.command()
 def fall(
-    mass: Annotated[str, typer.Option(help='Mass of the object, e.g. "1.2 kg", "3 lb".')],
     height: Annotated[
         str, typer.Option(help='Release height above the landing surface, e.g. "25 m", "80 ft".')
     ],
+    mass: Annotated[
+        str | None, typer.Option(help='Mass of the object, e.g. "1.2 kg", "3 lb".')
+    ] = None,
+    object_id: Annotated[
+        str | None,
+        typer.Option("--object", help="A library object id (see `dropcalc objects`)."),
+    ] = None,
     drag_area: Annotated[
         str | None, typer.Option(help='Drag area Cd·A, e.g. "0.004 m2", "6 in2".')
     ] = None,
@@ -175,40 +328,19 @@ def fall(
     contact_area: Annotated[
         str | None, typer.Option(help='Area that strikes first, e.g. "2 cm2" (energy per area).')
     ] = None,
-    wind: Annotated[str, typer.Option(help='Wind speed at 10 m, e.g. "12 m/s", "25 mph".')] = "0",
-    wind_kind: Annotated[
-        SpeedKind, typer.Option(help="Whether --wind is a mean speed or a gust.")
-    ] = SpeedKind.mean,
-    wind_from: Annotated[
-        str | None,
-        typer.Option(
-            help="Compass direction the wind blows from (deg). Default: straight at the edge "
-            "from behind, i.e. blowing the object away from the structure."
-        ),
-    ] = None,
-    wind_profile: Annotated[
-        ProfileName | None, typer.Option(help="Wind profile with height.")
-    ] = None,
-    wind_exponent: Annotated[
-        float | None, typer.Option(help="Power-law exponent of the wind profile.")
-    ] = None,
-    roughness: Annotated[
-        str | None, typer.Option(help='Log-law roughness length, e.g. "0.3 m".')
-    ] = None,
-    terrain: Annotated[
-        str | None,
-        typer.Option(help="Terrain class: en-0 … en-iv (EN 1991-1-4), asce-b/c/d (ASCE 7)."),
-    ] = None,
-    elevation: Annotated[str, typer.Option(help='Site elevation, e.g. "350 m".')] = "0",
-    air_temp: Annotated[str | None, typer.Option(help='Air temperature, e.g. "5 °C".')] = None,
-    pressure: Annotated[str | None, typer.Option(help='Air pressure, e.g. "98 kPa".')] = None,
-    humidity: Annotated[str | None, typer.Option(help='Relative humidity, e.g. "60 %".')] = None,
-    air_density: Annotated[
-        str | None, typer.Option(help='Air density; overrides the above, e.g. "1.2 kg/m3".')
-    ] = None,
-    latitude: Annotated[
-        float | None, typer.Option(help="Latitude (deg) for local gravity; default standard g.")
-    ] = None,
+    wind: WindOpt = "0",
+    wind_kind: WindKindOpt = SpeedKind.mean,
+    wind_from: WindFromOpt = None,
+    wind_profile: WindProfileOpt = None,
+    wind_exponent: WindExponentOpt = None,
+    roughness: RoughnessOpt = None,
+    terrain: TerrainOpt = None,
+    elevation: ElevationOpt = "0",
+    air_temp: AirTempOpt = None,
+    pressure: PressureOpt = None,
+    humidity: HumidityOpt = None,
+    air_density: AirDensityOpt = None,
+    latitude: LatitudeOpt = None,
     release: Annotated[
         ReleaseMode, typer.Option(help="How the object leaves the edge.")
     ] = ReleaseMode.drop,
@@ -233,89 +365,70 @@ def fall(
         str | None,
         typer.Option(help='Velocity of what it falls from, east,north,up, e.g. "0,0,-1 m/s".'),
     ] = None,
-    edge_azimuth: Annotated[
-        float, typer.Option(help="Compass direction the edge faces (deg); pushes go this way.")
-    ] = 90.0,
-    units: Annotated[UnitSystem, typer.Option(help="Units for display.")] = UnitSystem.si,
-    as_json: Annotated[
-        bool, typer.Option("--json", help="Print the result as one JSON object only.")
-    ] = False,
+    edge_azimuth: EdgeAzimuthOpt = 90.0,
+    library: LibraryOpt = None,
+    units: UnitsOpt = UnitSystem.si,
+    as_json: JsonOpt = False,
 ) -> None:
     """Solve one object falling from one release: impact speed, energy, time and drift."""
     try:
-        if not math.isfinite(edge_azimuth):
-            raise InputError(
-                f"--edge-azimuth must be a finite compass angle in degrees; got {edge_azimuth}"
-            )
         from dropcalc.fall import FallCase, solve_fall
-        from dropcalc.physics.atmosphere import air_state
-        from dropcalc.physics.gravity import gravity as local_g
-        from dropcalc.physics.release import Release
-        from dropcalc.physics.wind import wind_spec
         from dropcalc.render import render_fall
 
-        if drag_area is not None and (cd is not None or area is not None):
-            raise InputError(
-                "give either --drag-area or --cd with --area, not both "
-                f"(got --drag-area {drag_area} and --cd {cd} --area {area})"
-            )
-        if drag_area is None:
-            if cd is None or area is None:
+        env = _environment(
+            wind=wind, wind_kind=wind_kind, wind_from=wind_from, wind_profile=wind_profile,
+            wind_exponent=wind_exponent, roughness=roughness, terrain=terrain,
+            elevation=elevation, air_temp=air_temp, pressure=pressure, humidity=humidity,
+            air_density=air_density, latitude=latitude, edge_azimuth=edge_azimuth,
+        )  # fmt: skip
+        cda = _drag_area(drag_area, cd, area)
+        contact = _q(contact_area, "area", "--contact-area")
+        drag_area_max = None
+        obj = None
+        if object_id is not None:
+            if mass is not None or cda is not None:
+                raise InputError(
+                    "--object gives the mass and drag; do not combine it with --mass, "
+                    "--drag-area or --cd/--area"
+                )
+            from dropcalc.library import load_library
+
+            obj = load_library(library).get(object_id)
+            mass_kg, cda, drag_area_max = obj.mass, obj.drag_area_min, obj.drag_area_max
+            contact = contact if contact is not None else obj.contact_area
+        else:
+            if mass is None:
+                raise InputError(
+                    "give --mass with --drag-area (or --cd and --area), or --object ID"
+                )
+            if cda is None:
                 raise InputError(
                     "the drag needs --drag-area (Cd·A, e.g. 0.004 m2) or both --cd and --area"
                 )
-            if not (0 < cd <= 5):
-                raise InputError(f"--cd must be between 0 and 5 (exclusive of 0); got {cd:g}")
-            area_m2 = float(_q(area, "area", "--area"))
-            if not area_m2 > 0:
-                raise InputError(f"--area must be an area > 0 m²; got {area}")
-            cda = cd * area_m2
-        else:
-            cda = float(_q(drag_area, "area", "--drag-area"))
-        elevation_m = float(_q(elevation, "length", "--elevation"))
-        air = air_state(
-            elevation=elevation_m,
-            temperature=_q(air_temp, "temperature", "--air-temp"),
-            pressure=_q(pressure, "pressure", "--pressure"),
-            relative_humidity=_q(humidity, "fraction", "--humidity"),
-            density=_q(air_density, "density", "--air-density"),
-        )
-        default_from = (edge_azimuth + 180.0) % 360.0
-        wind_model = wind_spec(
-            float(_q(wind, "speed", "--wind")),
-            kind=wind_kind.value,
-            from_direction=_q(wind_from, "angle", "--wind-from") if wind_from else default_from,
-            profile=wind_profile.value if wind_profile else None,
-            exponent=wind_exponent,
-            roughness_length=_q(roughness, "length", "--roughness"),
-            terrain=terrain,
-        )
-        mode = release.value
-        speed = _q(release_speed, "speed", "--release-speed")
-        if mode in ("push", "throw") and speed is None:
-            raise InputError(f"--release {mode} needs --release-speed (e.g. 2 m/s)")
-        if mode == "roof-slide" and (roof_pitch is None or roof_length is None):
-            raise InputError("--release roof-slide needs --roof-pitch and --roof-length")
-        release_model = Release(
-            mode=mode,
-            speed=speed or 0.0,
-            angle=_q(release_angle, "angle", "--release-angle") or 0.0,
-            roof_pitch=_q(roof_pitch, "angle", "--roof-pitch") or 0.0,
-            roof_length=_q(roof_length, "length", "--roof-length") or 0.0,
-            friction=friction if friction is not None else (0.4 if mode == "roof-slide" else 0.0),
-            rolling=rolling,
-            carrier_velocity=_carrier(carrier_velocity),
-        )
+            mass_kg = float(_q(mass, "mass", "--mass"))
         case = FallCase(
-            mass=float(_q(mass, "mass", "--mass")),
+            mass=mass_kg,
             drag_area=cda,
             height=float(_q(height, "length", "--height")),
-            release=release_model,
-            air=air,
-            wind=wind_model,
-            gravity=local_g(latitude, elevation_m),
+            release=_release(
+                release.value,
+                release_speed,
+                release_angle,
+                roof_pitch,
+                roof_length,
+                friction,
+                rolling,
+                carrier_velocity,
+            ),  # fmt: skip
+            air=env.air,
+            wind=env.wind,
+            gravity=env.gravity,
             edge_azimuth=edge_azimuth,
-            contact_area=_q(contact_area, "area", "--contact-area"),
+            contact_area=contact,
+            drag_area_max=drag_area_max,
+            object_id=obj.id if obj is not None else None,
+            object_name=obj.name if obj is not None else None,
+            glides=bool(obj.glides) if obj is not None else False,
         )
         result = solve_fall(case)
     except DropcalcError as exc:
@@ -329,8 +442,4 @@ def fall(
 
 def main() -> None:
     """Entry point of the ``dropcalc`` console script."""
-    try:
-        app()
-    except DropcalcError as exc:  # pragma: no cover - commands catch their own
-        typer.echo(f"dropcalc: error: {exc}", err=True)
-        sys.exit(2)
+    app()

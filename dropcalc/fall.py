@@ -68,6 +68,13 @@ class FallCase:
         Compass direction the edge faces (away from the structure). [deg]
     contact_area : float or None
         Area that strikes first, for energy per area. [m^2]
+    drag_area_max : float or None
+        Largest drag area of a tumbling object (longest drift); ``drag_area`` is then the
+        smallest (highest impact energy). [m^2]
+    object_id, object_name : str or None
+        The library object, when the inputs came from it.
+    glides : bool
+        The object is a sheet or plate that can glide in wind.
     """
 
     mass: float
@@ -79,12 +86,20 @@ class FallCase:
     gravity: float = 9.80665
     edge_azimuth: float = 90.0
     contact_area: float | None = None
+    drag_area_max: float | None = None
+    object_id: str | None = None
+    object_name: str | None = None
+    glides: bool = False
 
     def __post_init__(self) -> None:
         _check_range("mass", self.mass, *MASS_RANGE, "kg")
         _check_range("drag_area", self.drag_area, *DRAG_AREA_RANGE, "m²")
         require_finite_positive("height", self.height, "m")
         _check_range("height", self.height, 0.0, MAX_RELEASE_HEIGHT, "m")
+        if self.drag_area_max is not None:
+            _check_range(
+                "drag_area_max", self.drag_area_max, self.drag_area, DRAG_AREA_RANGE[1], "m²"
+            )
         if self.contact_area is not None:
             _check_range("contact_area", self.contact_area, *CONTACT_AREA_RANGE, "m²")
         if not math.isfinite(self.edge_azimuth):
@@ -103,6 +118,7 @@ class WindCase:
     label: str
     speed_10m: float
     impact: Impact
+    impact_max_drag: Impact | None = None
 
 
 @dataclass(frozen=True)
@@ -117,6 +133,7 @@ class FallResult:
     def to_json(self) -> dict[str, Any]:
         """Return the JSON contract (SI, snake case with unit suffixes; see DESIGN.md)."""
         imp = self.given.impact
+        max_imp = self.given.impact_max_drag or imp
         case = self.case
 
         def value(array: np.ndarray | None) -> float | None:
@@ -170,6 +187,21 @@ class FallResult:
             "gust_impact_energy_j": (
                 None if self.gust is None else value(self.gust.impact.kinetic_energy)
             ),
+            "object_id": case.object_id,
+            "object_name": case.object_name,
+            "drag_area_max_m2": case.drag_area_max
+            if case.drag_area_max is not None
+            else case.drag_area,
+            "drift_max_m": value(max_imp.drift),
+            "impact_energy_min_j": value(max_imp.kinetic_energy),
+            "impact_speed_min_m_s": value(max_imp.impact_speed),
+            "fall_time_max_s": value(max_imp.fall_time),
+            "terminal_speed_min_m_s": value(max_imp.terminal_speed),
+            "gust_drift_max_m": (
+                None
+                if self.gust is None
+                else value((self.gust.impact_max_drag or self.gust.impact).drift)
+            ),
             "warnings": list(self.warnings),
             "caution": CAUTION_SHORT,
         }
@@ -208,21 +240,29 @@ def solve_fall(case: FallCase) -> FallResult:
     if case.wind.kind == "mean" and case.wind.speed_10m > 0:
         gust_speed = case.wind.gust_speed_10m()
         speeds.append(gust_speed)
+    n = len(speeds)
     speeds_arr = np.array(speeds)
+    ks = np.full(n, k)
+    if case.drag_area_max is not None:
+        # The same winds again at the largest drag area: the longest drift.
+        k_max = float(drag_parameter(case.air.density, case.drag_area_max, case.mass))
+        speeds_arr = np.concatenate([speeds_arr, speeds_arr])
+        ks = np.concatenate([ks, np.full(n, k_max)])
     v0 = np.asarray(initial_velocity(case.release, case.edge_azimuth, case.gravity), dtype=float)
     wind_field = _wind_field(case.wind, speeds_arr)
     solution = solve_falls(
         case.height,
         v0.reshape(3, 1),
-        k,
+        ks,
         gravity=case.gravity,
         wind=wind_field,
         max_distance=CARRIED_AWAY_DISTANCE,
     )
     impact = impact_from_solution(
-        solution, case.mass, k, case.gravity, wind_field, case.contact_area
+        solution, case.mass, ks, case.gravity, wind_field, case.contact_area
     )
     impacts = [_pick(impact, i) for i in range(len(speeds))]
+    max_drag = [_pick(impact, n + i) if case.drag_area_max is not None else None for i in range(n)]
     warnings: list[str] = []
     if not impacts[0].landed[0]:
         warnings.append(
@@ -230,16 +270,21 @@ def solve_fall(case: FallCase) -> FallResult:
             "no landing point or impact can be given for this wind (a windborne object: the "
             "drop zone cannot be bounded by this model)"
         )
-    vt = float(impacts[0].terminal_speed[0])
+    slowest = impacts[0] if max_drag[0] is None else max_drag[0]
+    vt = float(slowest.terminal_speed[0])
     if case.wind.speed_10m > 0 and vt < case.wind.speed_10m:
         warnings.append(
             f"windborne: terminal speed {vt:.2g} m/s is below the wind speed; light, flat or "
             "sheet-like objects can glide and fly further than this point-mass model predicts"
         )
-    given = WindCase(case.wind.kind, case.wind.speed_10m, impacts[0])
+    if case.glides:
+        from dropcalc.physics.shapes import GLIDE_WARNING
+
+        warnings.append(GLIDE_WARNING)
+    given = WindCase(case.wind.kind, case.wind.speed_10m, impacts[0], max_drag[0])
     gust = None
     if gust_speed is not None:
-        gust = WindCase("estimated gust", gust_speed, impacts[1])
+        gust = WindCase("estimated gust", gust_speed, impacts[1], max_drag[1])
     return FallResult(case, given, gust, tuple(warnings))
 
 

@@ -23,6 +23,19 @@ def _fmt(value: float, kind: str, system: str, digits: int = 3) -> str:
     return format_quantity(value, kind, system, digits)
 
 
+def _bound_rows(imp: Impact | None, system: str) -> list[tuple[str, str]]:
+    """Rows for the largest drag area (a tumbling object's longest drift)."""
+    if imp is None:
+        return []
+    if not bool(imp.landed[0]):
+        return [("At largest drag area", "carried away by the wind")]
+    return [
+        ("Largest drag area: drift", _fmt(_v(imp.drift), "length", system)),
+        ("  impact energy", _fmt(_v(imp.kinetic_energy), "energy", system)),
+        ("  fall time", f"{_v(imp.fall_time):.2f} s"),
+    ]
+
+
 def _impact_rows(imp: Impact, system: str, edge_azimuth: float) -> list[tuple[str, str]]:
     if not bool(imp.landed[0]):
         return [("Landing", "none: carried away by the wind (see warning)")]
@@ -104,9 +117,17 @@ def render_fall(result: FallResult, system: str = "si") -> str:
     )
     if result.warnings:
         lines.append("")
+    if case.drag_area_max is None:
+        drag = f"drag area Cd·A {_fmt(case.drag_area, 'area', system)}"
+    else:
+        drag = (
+            f"drag area Cd·A {_fmt(case.drag_area, 'area', system)} (smallest: highest energy) "
+            f"to {_fmt(case.drag_area_max, 'area', system)} (largest: longest drift)"
+        )
+    what = f"{case.object_name} [{case.object_id}]: " if case.object_id else ""
     header = [
-        ("Object", f"mass {_fmt(case.mass, 'mass', system)}, drag area Cd·A "
-                   f"{_fmt(case.drag_area, 'area', system)}, contact area {contact}"),
+        ("Object", f"{what}mass {_fmt(case.mass, 'mass', system)}, {drag}, "
+                   f"contact area {contact}"),
         ("Release", f"{result.to_json()['release']}, from "
                     f"{_fmt(case.height, 'length', system)} above the landing surface; "
                     f"the edge faces {case.edge_azimuth:.0f}°"),
@@ -123,7 +144,9 @@ def render_fall(result: FallResult, system: str = "si") -> str:
     for wind_case in (result.given, result.gust):
         if wind_case is not None:
             heading = f"{wind_case.label} {_fmt(wind_case.speed_10m, 'speed', system)}"
-            columns.append((heading, _impact_rows(wind_case.impact, system, case.edge_azimuth)))
+            rows = _impact_rows(wind_case.impact, system, case.edge_azimuth)
+            rows += _bound_rows(wind_case.impact_max_drag, system)
+            columns.append((heading, rows))
     labels = [label for label, _ in columns[0][1]]
     width = max(len(label) for label in labels) + 2
     col_width = max(

@@ -1,0 +1,581 @@
+"""Checks of a job's object list: every item's impact at both drag bounds, in one array call.
+
+Input rows name a library object (``id``) or describe a custom one (``mass`` with ``drag_area``,
+or with ``shape`` and its dimensions). Each good row is solved at the smallest drag area (the
+highest impact energy) and at the largest (the longest drift) with the same engine and inputs
+as ``dropcalc fall``; it is compared with the energy reference levels, given the greatest
+release height at which it stays below each level (an inverse solve on the engine), and a
+suggested control from the policy. A bad row gets its reason in the ``error`` column and the
+others go on.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from collections.abc import Callable, Sequence
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import TYPE_CHECKING, Any
+
+import numpy as np
+
+from dropcalc.errors import DropcalcError, InputError
+from dropcalc.physics.atmosphere import AirState, air_state
+from dropcalc.physics.drag import drag_parameter
+from dropcalc.physics.impact import impact_from_solution
+from dropcalc.physics.release import Release, initial_velocity
+from dropcalc.physics.trajectory import FallSolution, WindField, solve_falls
+from dropcalc.physics.wind import WindSpec, wind_spec
+from dropcalc.policy import DEFAULT_RULES, ControlRule, suggest_control
+from dropcalc.reference_levels import DEFAULT_LEVEL_KEYS, REFERENCE_LEVELS, ReferenceLevel
+
+if TYPE_CHECKING:
+    import pandas as pd
+
+    from dropcalc.library import Library
+
+#: Largest release height considered by the inverse solve [m]; above it a level is "never"
+#: reached (the engine's own limit, DESIGN.md: sites up to 5 km).
+MAX_INVERSE_HEIGHT = 5000.0
+#: Relative accuracy of the inverse height solve.
+INVERSE_TOLERANCE = 1e-4
+#: Rows solved per engine call (the progress bar advances per chunk).
+CHUNK_ROWS = 4000
+
+#: Input columns (lower case; spaces and hyphens read as underscores).
+ID_COLUMNS = ("id",)
+TEXT_COLUMNS = ("id", "label", "shape")
+QUANTITY_COLUMNS = {
+    "mass": "mass",
+    "drag_area": "area",
+    "contact_area": "area",
+    "height": "length",
+    "length": "length",
+    "width": "length",
+    "depth": "length",
+    "thickness": "length",
+    "diameter": "length",
+    "outer_diameter": "length",
+    "wall_thickness": "length",
+}
+KNOWN_COLUMNS = frozenset({*TEXT_COLUMNS, "quantity", *QUANTITY_COLUMNS})
+
+
+@dataclass(frozen=True)
+class BatchSettings:
+    """Inputs shared by every row of a batch (SI units).
+
+    Attributes
+    ----------
+    height : float or None
+        Release height for rows without their own ``height``. [m]
+    wind : WindSpec
+        The wind of the day.
+    air : AirState
+        Air density and its basis.
+    gravity : float
+        Acceleration of gravity. [m/s^2]
+    release : Release
+        How items leave the edge (drop or push for a list).
+    edge_azimuth : float
+        Compass direction the edge faces. [deg]
+    levels : tuple of ReferenceLevel
+        Levels to compare with and to solve safe heights for.
+    rules : tuple of ControlRule
+        Control policy, first match wins.
+    """
+
+    height: float | None = None
+    wind: WindSpec = field(default_factory=lambda: wind_spec(0.0))
+    air: AirState = field(default_factory=air_state)
+    gravity: float = 9.80665
+    release: Release = field(default_factory=Release)
+    edge_azimuth: float = 90.0
+    levels: tuple[ReferenceLevel, ...] = tuple(REFERENCE_LEVELS[k] for k in DEFAULT_LEVEL_KEYS)
+    rules: tuple[ControlRule, ...] = DEFAULT_RULES
+
+
+@dataclass(frozen=True)
+class Item:
+    """One good input row, resolved to physical properties (SI)."""
+
+    row: int
+    label: str
+    object_id: str
+    name: str
+    quantity: int
+    mass: float
+    drag_area_min: float
+    drag_area_max: float
+    contact_area: float | None
+    height: float
+    glides: bool
+    fragile: bool
+
+
+@dataclass(frozen=True)
+class RowError:
+    """A row that could not be used, with its reason."""
+
+    row: int
+    label: str
+    object_id: str
+    message: str
+
+
+# --------------------------------------------------------------------------------------------
+# Reading
+
+
+def _column_name(name: object) -> str:
+    return re.sub(r"[\s\-]+", "_", str(name).strip().lower()).lstrip("\ufeff")
+
+
+def read_table(path: Path) -> pd.DataFrame:
+    """Read a CSV or XLSX item list as text cells (no type guessing).
+
+    CSV: UTF-8 (with or without byte-order mark), else Latin-1; comma, semicolon or tab
+    separated (sniffed from the header line). Decimal commas in cells are read by the
+    quantity parser.
+
+    Raises
+    ------
+    InputError
+        When the file cannot be read as a table at all.
+    """
+    import pandas as pd
+
+    path = Path(path)
+    if not path.is_file():
+        raise InputError(f"{path}: no such file")
+    suffix = path.suffix.lower()
+    try:
+        if suffix in (".xlsx", ".xlsm"):
+            frame = pd.read_excel(path, dtype=str, keep_default_na=False, engine="openpyxl")
+        elif suffix in (".csv", ".txt", ".tsv", ""):
+            raw = path.read_bytes()
+            try:
+                text = raw.decode("utf-8-sig")
+            except UnicodeDecodeError:
+                text = raw.decode("latin-1")
+            header = text.split("\n", 1)[0]
+            separator = max((";", ",", "\t"), key=header.count)
+            if header.count(separator) == 0:
+                separator = ","
+            import io
+
+            frame = pd.read_csv(
+                io.StringIO(text), sep=separator, dtype=str, keep_default_na=False,
+                skipinitialspace=True,
+            )  # fmt: skip
+        else:
+            raise InputError(f"{path}: expected a .csv or .xlsx file; got {suffix or 'no suffix'}")
+    except InputError:
+        raise
+    except Exception as exc:  # pandas raises many kinds for malformed tables
+        raise InputError(f"{path}: cannot read the table ({exc})") from None
+    frame.columns = [_column_name(c) for c in frame.columns]
+    if frame.empty or not len(frame.columns):
+        raise InputError(f"{path}: the table has no rows")
+    # Extra columns (notes, prices) are carried by many real lists: ignore them, but say so.
+    frame.attrs["ignored_columns"] = [c for c in frame.columns if c not in KNOWN_COLUMNS]
+    if "id" not in frame.columns and "mass" not in frame.columns:
+        raise InputError(f"{path}: needs an 'id' column (library objects) or a 'mass' column")
+    return frame
+
+
+def _cell(record: dict[str, Any], name: str) -> str:
+    value = record.get(name, "")
+    return "" if value is None else str(value).strip()
+
+
+def _resolve_row(
+    number: int, record: dict[str, Any], library: Library | None, settings: BatchSettings
+) -> Item:
+    """Turn one row into an Item or raise InputError (message without the row prefix)."""
+    from dropcalc.units import parse_quantity
+
+    def quantity(name: str) -> float | None:
+        text = _cell(record, name)
+        if not text:
+            return None
+        value = parse_quantity(text, QUANTITY_COLUMNS[name], name)
+        if not value > 0:
+            raise InputError(f"{name} must be > 0; got {text!r}")
+        return value
+
+    object_id = _cell(record, "id")
+    label = _cell(record, "label")
+    count_text = _cell(record, "quantity") or "1"
+    try:
+        count = int(float(count_text.replace(",", ".")))
+    except ValueError:
+        raise InputError(f"quantity must be a whole number >= 1; got {count_text!r}") from None
+    if count < 1 or float(count_text.replace(",", ".")) != count:
+        raise InputError(f"quantity must be a whole number >= 1; got {count_text!r}")
+    height = quantity("height") or settings.height
+    if height is None:
+        raise InputError("height is missing: give a 'height' column or --height for the list")
+    contact = quantity("contact_area")
+    mass = quantity("mass")
+    drag_area = quantity("drag_area")
+    glides = fragile = False
+    name = label
+    if object_id:
+        if mass is not None or drag_area is not None or _cell(record, "shape"):
+            raise InputError("give either an id or mass/drag_area/shape, not both")
+        if library is None:
+            raise InputError("an id needs the object library")
+        obj = library.get(object_id)
+        mass, area_min, area_max = obj.mass, obj.drag_area_min, obj.drag_area_max
+        contact = contact if contact is not None else obj.contact_area
+        glides, fragile, name = obj.glides, obj.fragile, obj.name
+    else:
+        if mass is None:
+            raise InputError("mass is missing (or give a library id)")
+        shape = _cell(record, "shape")
+        if drag_area is not None and shape:
+            raise InputError("give either drag_area or shape with its dimensions, not both")
+        if drag_area is not None:
+            area_min = area_max = drag_area
+        elif shape:
+            from dropcalc.physics.shapes import SHAPE_DIMENSIONS, drag_bounds, normalise_shape
+
+            shape = normalise_shape(shape)
+            dims = {}
+            for dim in SHAPE_DIMENSIONS[shape]:
+                column = "depth" if dim == "height" else dim
+                value = quantity(column)
+                if value is None:
+                    raise InputError(f"shape {shape} needs {column}")
+                dims[dim] = value
+            bounds = drag_bounds(shape, **dims)
+            area_min, area_max = float(bounds.drag_area_min), float(bounds.drag_area_max)
+            glides = bool(bounds.glides)
+        else:
+            raise InputError("drag is missing: give drag_area, or shape with its dimensions")
+    return Item(
+        row=number,
+        label=label or object_id,
+        object_id=object_id,
+        name=name or label or object_id,
+        quantity=count,
+        mass=float(mass),
+        drag_area_min=float(area_min),
+        drag_area_max=float(area_max),
+        contact_area=contact,
+        height=float(height),
+        glides=glides,
+        fragile=fragile,
+    )
+
+
+def parse_items(
+    frame: pd.DataFrame, library: Library | None, settings: BatchSettings
+) -> tuple[list[Item], list[RowError]]:
+    """Resolve every row; rows numbered as a spreadsheet shows them (header = row 1)."""
+    from dropcalc.fall import FallCase
+
+    items: list[Item] = []
+    errors: list[RowError] = []
+    for index, record in enumerate(frame.to_dict("records")):
+        number = index + 2
+        if not any(str(v).strip() for v in record.values()):
+            continue  # blank line
+        try:
+            item = _resolve_row(number, record, library, settings)
+            # The same range checks as a single fall.
+            FallCase(
+                mass=item.mass,
+                drag_area=item.drag_area_min,
+                height=item.height,
+                contact_area=item.contact_area,
+            )
+            if item.drag_area_max != item.drag_area_min:
+                FallCase(mass=item.mass, drag_area=item.drag_area_max, height=item.height)
+            items.append(item)
+        except DropcalcError as exc:
+            errors.append(RowError(number, _cell(record, "label"), _cell(record, "id"), str(exc)))
+    return items, errors
+
+
+# --------------------------------------------------------------------------------------------
+# Solving
+
+
+def _wind_field(wind: WindSpec, n: int) -> WindField:
+    east, north = wind.towards_unit_vector()
+    return WindField(
+        speed_10m=np.full(n, wind.speed_10m),
+        toward_east=east,
+        toward_north=north,
+        profile=wind.profile,
+        exponent=wind.exponent or 0.0,
+        roughness_length=wind.roughness_length or 0.05,
+        minimum_height=wind.minimum_height,
+    )
+
+
+def _solve(heights: np.ndarray, k: np.ndarray, settings: BatchSettings) -> FallSolution:
+    v0 = np.asarray(
+        initial_velocity(settings.release, settings.edge_azimuth, settings.gravity), dtype=float
+    )
+    return solve_falls(
+        heights,
+        v0.reshape(3, 1) * np.ones((1, heights.size)),
+        k,
+        gravity=settings.gravity,
+        wind=_wind_field(settings.wind, heights.size),
+    )
+
+
+def _impact_energy(
+    heights: np.ndarray, masses: np.ndarray, k: np.ndarray, settings: BatchSettings
+) -> np.ndarray:
+    """Impact energy [J] for each (height, mass, k); NaN where the object did not land."""
+    solution = _solve(heights, k, settings)
+    speed2 = np.sum(solution.velocity**2, axis=0)
+    return np.where(solution.landed, 0.5 * masses * speed2, np.nan)
+
+
+def safe_heights(
+    masses: np.ndarray,
+    k: np.ndarray,
+    energy_levels: np.ndarray,
+    settings: BatchSettings,
+) -> np.ndarray:
+    """Greatest release height [m] at which the impact energy stays below each level.
+
+    Solved on the engine itself (same wind, release and air as the batch) by the Illinois
+    variant of regula falsi on ln(height), vectorised over all (item, level) pairs, to a
+    relative accuracy of :data:`INVERSE_TOLERANCE` in height. Returns ``inf`` where the level
+    is not reached from :data:`MAX_INVERSE_HEIGHT` and 0 where it is exceeded from any height
+    (a push or throw already carries that energy). The closed form of a still-air drop,
+    h = -(v_t^2 / 2g) ln(1 - v^2/v_t^2) with v^2 = 2E/m (Timmerman and van der Weele 1999),
+    starts the bracket.
+
+    Parameters
+    ----------
+    masses, k, energy_levels : numpy.ndarray, shape (n,)
+        Mass [kg], drag parameter [1/m] and the energy level [J] of each pair.
+    settings : BatchSettings
+        Wind, air, gravity and release.
+    """
+    g = settings.gravity
+    n = masses.size
+    result = np.full(n, np.nan)
+    if n == 0:
+        return result
+    lo = np.full(n, 0.01)
+    hi = np.full(n, MAX_INVERSE_HEIGHT)
+    f_lo = _impact_energy(lo, masses, k, settings) - energy_levels
+    f_hi = _impact_energy(hi, masses, k, settings) - energy_levels
+    result[f_lo >= 0] = 0.0
+    never = ~(f_hi >= 0) & ~(f_lo >= 0)
+    result[never] = np.inf
+    active = np.flatnonzero(np.isnan(result))
+    if active.size == 0:
+        return result
+    # Bracket from the still-air closed form where it exists.
+    v2 = 2.0 * energy_levels[active] / masses[active]
+    with np.errstate(divide="ignore", invalid="ignore"):
+        vt2 = g / k[active]
+        guess = np.where(v2 < vt2, -vt2 / (2.0 * g) * np.log1p(-v2 / vt2), v2 / (2.0 * g))
+    guess = np.clip(
+        np.nan_to_num(guess, nan=1.0, posinf=MAX_INVERSE_HEIGHT), 0.02, MAX_INVERSE_HEIGHT
+    )
+    x_lo, x_hi = np.log(lo[active]), np.log(hi[active])
+    y_lo, y_hi = f_lo[active], f_hi[active]
+    x_try = np.log(guess)
+    side = np.zeros(active.size)
+    for _ in range(60):
+        y_try = (
+            _impact_energy(np.exp(x_try), masses[active], k[active], settings)
+            - energy_levels[active]
+        )
+        y_try = np.nan_to_num(y_try, nan=-1.0)
+        below = y_try < 0
+        x_lo = np.where(below, x_try, x_lo)
+        y_lo = np.where(below, y_try, y_lo)
+        x_hi = np.where(below, x_hi, x_try)
+        y_hi = np.where(below, y_hi, y_try)
+        # Illinois: halve the value kept twice on the same side.
+        y_hi = np.where(below & (side < 0), y_hi / 2.0, y_hi)
+        y_lo = np.where(~below & (side > 0), y_lo / 2.0, y_lo)
+        side = np.where(below, -1.0, 1.0)
+        converged = (x_hi - x_lo) < INVERSE_TOLERANCE
+        if np.all(converged):
+            break
+        x_try = np.where(converged, x_lo, x_lo - y_lo * (x_hi - x_lo) / (y_hi - y_lo))
+        x_try = np.clip(x_try, x_lo + 1e-3 * (x_hi - x_lo), x_hi - 1e-3 * (x_hi - x_lo))
+    result[active] = np.exp(x_lo)
+    return result
+
+
+def _energy_equivalents(items: Sequence[Item], level: ReferenceLevel) -> np.ndarray:
+    """The impact energy [J] at which each item reaches ``level`` (NaN if not applicable)."""
+    if level.quantity == "energy":
+        return np.full(len(items), level.value)
+    return np.array([level.value * it.contact_area if it.contact_area else np.nan for it in items])
+
+
+def solve_items(
+    items: Sequence[Item],
+    settings: BatchSettings,
+    progress: Callable[[int, int], None] | None = None,
+) -> list[dict[str, Any]]:
+    """Compute the output row of every item (dicts with unit-suffixed keys, unsorted)."""
+    rows: list[dict[str, Any]] = []
+    total = len(items)
+    for start in range(0, total, CHUNK_ROWS):
+        chunk = list(items[start : start + CHUNK_ROWS])
+        rows.extend(_solve_chunk(chunk, settings))
+        if progress is not None:
+            progress(min(start + CHUNK_ROWS, total), total)
+    return rows
+
+
+def _solve_chunk(items: Sequence[Item], settings: BatchSettings) -> list[dict[str, Any]]:
+    n = len(items)
+    mass = np.array([it.mass for it in items])
+    height = np.array([it.height for it in items])
+    area_min = np.array([it.drag_area_min for it in items])
+    area_max = np.array([it.drag_area_max for it in items])
+    contact = np.array([it.contact_area or np.nan for it in items])
+    rho = settings.air.density
+    k_min = drag_parameter(rho, area_min, mass)  # highest energy
+    k_max = drag_parameter(rho, area_max, mass)  # longest drift
+    both_k = np.concatenate([k_min, k_max])
+    solution = _solve(np.concatenate([height, height]), both_k, settings)
+    wind = _wind_field(settings.wind, 2 * n)
+    impact = impact_from_solution(
+        solution, np.concatenate([mass, mass]), both_k, settings.gravity, wind
+    )
+    hi, lo = slice(0, n), slice(n, 2 * n)
+    energy = impact.kinetic_energy[hi]
+    per_area = energy / contact
+
+    # Safe heights for every (item, level) pair, deduplicated on the physics that decides it.
+    levels = settings.levels
+    level_energy = (
+        np.stack([_energy_equivalents(items, lv) for lv in levels]) if levels else np.empty((0, n))
+    )
+    pair_mass = np.tile(mass, len(levels))
+    pair_k = np.tile(k_min, len(levels))
+    pair_energy = level_energy.reshape(-1)
+    valid = np.isfinite(pair_energy)
+    keys = np.stack([pair_mass, pair_k, pair_energy]).T
+    safe = np.full(pair_energy.size, np.nan)
+    if np.any(valid):
+        unique, inverse = np.unique(keys[valid], axis=0, return_inverse=True)
+        solved = safe_heights(unique[:, 0], unique[:, 1], unique[:, 2], settings)
+        safe[valid] = solved[inverse.reshape(-1)]
+    safe = safe.reshape(len(levels), n) if levels else safe.reshape(0, n)
+
+    def num(value: float) -> float | None:
+        value = float(value)
+        return value if math.isfinite(value) else None
+
+    out = []
+    for i, item in enumerate(items):
+        landed = bool(impact.landed[i])
+        exceeded = [
+            lv.key
+            for j, lv in enumerate(levels)
+            if np.isfinite(level_energy[j, i]) and landed and energy[i] >= level_energy[j, i]
+        ]
+        epa = None if item.contact_area is None else num(per_area[i])
+        warnings = []
+        if not landed:
+            warnings.append("carried away by the wind: no landing within the solver's range")
+        if item.glides:
+            warnings.append("sheet or plate: can glide far in wind; drift not conservative")
+        if (
+            settings.wind.speed_10m > 0
+            and float(impact.terminal_speed[lo][i]) < settings.wind.speed_10m
+        ):
+            warnings.append("windborne: terminal speed below the wind speed")
+        row: dict[str, Any] = {
+            "row": item.row,
+            "label": item.label,
+            "id": item.object_id,
+            "name": item.name,
+            "quantity": item.quantity,
+            "mass_kg": item.mass,
+            "release_height_m": item.height,
+            "drag_area_min_m2": item.drag_area_min,
+            "drag_area_max_m2": item.drag_area_max,
+            "contact_area_m2": item.contact_area,
+            "terminal_speed_max_m_s": num(impact.terminal_speed[hi][i]),
+            "terminal_speed_min_m_s": num(impact.terminal_speed[lo][i]),
+            "impact_speed_max_m_s": num(impact.impact_speed[hi][i]),
+            "impact_speed_min_m_s": num(impact.impact_speed[lo][i]),
+            "impact_energy_max_j": num(energy[i]),
+            "impact_energy_min_j": num(impact.kinetic_energy[lo][i]),
+            "energy_per_contact_area_j_cm2": None if epa is None else epa / 1e4,
+            "fall_time_s": num(impact.fall_time[hi][i]),
+            "fall_time_max_s": num(impact.fall_time[lo][i]),
+            "drift_min_m": num(impact.drift[hi][i]),
+            "drift_max_m": num(impact.drift[lo][i]),
+            "levels_exceeded": "; ".join(exceeded),
+        }
+        for j, lv in enumerate(levels):
+            value = float(safe[j, i])
+            row[f"safe_height_{lv.key}_m"] = (
+                None if math.isnan(value) else (value if math.isfinite(value) else "never")
+            )
+        row["control"] = suggest_control(
+            settings.rules, float(energy[i]) if landed else 0.0, epa, item.mass, item.glides
+        )
+        row["fragile"] = item.fragile
+        row["glides"] = item.glides
+        row["warnings"] = "; ".join(warnings)
+        row["error"] = ""
+        out.append(row)
+    return out
+
+
+def error_rows(errors: Sequence[RowError]) -> list[dict[str, Any]]:
+    """Output rows for the rows that failed (only identity and the error filled)."""
+    return [
+        {"row": e.row, "label": e.label, "id": e.object_id, "error": f"row {e.row}: {e.message}"}
+        for e in errors
+    ]
+
+
+def sort_rows(rows: list[dict[str, Any]]) -> list[dict[str, Any]]:
+    """Good rows by impact energy (highest first), then the failed rows in input order."""
+    good = [r for r in rows if not r.get("error")]
+    bad = [r for r in rows if r.get("error")]
+    good.sort(key=lambda r: -(r.get("impact_energy_max_j") or 0.0))
+    bad.sort(key=lambda r: r["row"])
+    return good + bad
+
+
+# --------------------------------------------------------------------------------------------
+# Writing
+
+_FORMULA_START = ("=", "+", "-", "@", "\t", "\r")
+
+
+def neutralise(value: Any) -> Any:
+    """Prefix text that a spreadsheet would run as a formula with an apostrophe."""
+    if isinstance(value, str) and value.startswith(_FORMULA_START):
+        return "'" + value
+    return value
+
+
+def rows_frame(rows: Sequence[dict[str, Any]]) -> pd.DataFrame:
+    """The output rows as a DataFrame with a stable column order (text cells neutralised)."""
+    import pandas as pd
+
+    columns: list[str] = []
+    for row in rows:
+        for key in row:
+            if key not in columns:
+                columns.append(key)
+    frame = pd.DataFrame(
+        [{k: neutralise(r.get(k)) for k in columns} for r in rows], columns=columns
+    )
+    return frame

@@ -1,0 +1,60 @@
+"""Writing result files so that an error never leaves a half-written file behind.
+
+Every file is written to a temporary name in the target folder and renamed over the target
+only when complete (``os.replace`` is atomic on one file system).
+"""
+
+from __future__ import annotations
+
+import json
+import os
+import tempfile
+from collections.abc import Callable, Sequence
+from pathlib import Path
+from typing import Any
+
+from dropcalc.errors import InputError
+
+OUTPUT_FORMATS = (".csv", ".xlsx", ".json")
+
+
+def write_atomic(path: Path, write: Callable[[Path], None]) -> None:
+    """Call ``write(temporary_path)`` and rename the result to ``path``.
+
+    Raises
+    ------
+    InputError
+        If the folder does not exist or cannot be written; the target is left untouched.
+    """
+    path = Path(path)
+    folder = path.parent if str(path.parent) else Path(".")
+    if not folder.is_dir():
+        raise InputError(f"{path}: the folder {folder} does not exist")
+    fd, temporary = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=folder)
+    os.close(fd)
+    try:
+        write(Path(temporary))
+        os.replace(temporary, path)
+    except OSError as exc:
+        raise InputError(f"{path}: cannot write ({exc.strerror})") from None
+    finally:
+        if os.path.exists(temporary):
+            os.unlink(temporary)
+
+
+def write_rows(path: Path, rows: Sequence[dict[str, Any]]) -> None:
+    """Write result rows as CSV, XLSX or JSON, chosen by the file suffix."""
+    from dropcalc.batch import rows_frame
+
+    suffix = Path(path).suffix.lower()
+    if suffix not in OUTPUT_FORMATS:
+        raise InputError(f"--out must end in {', '.join(OUTPUT_FORMATS)}; got {Path(path).name}")
+    if suffix == ".json":
+        text = json.dumps(list(rows), indent=2, allow_nan=False)
+        write_atomic(path, lambda p: p.write_text(text + "\n", encoding="utf-8"))
+        return
+    frame = rows_frame(rows)
+    if suffix == ".csv":
+        write_atomic(path, lambda p: frame.to_csv(p, index=False, encoding="utf-8"))
+    else:
+        write_atomic(path, lambda p: frame.to_excel(p, index=False, engine="openpyxl"))
