@@ -40,6 +40,8 @@ if TYPE_CHECKING:
 MAX_INVERSE_HEIGHT = 5000.0
 #: Relative accuracy of the inverse height solve.
 INVERSE_TOLERANCE = 1e-4
+#: Newton iterations at most; the pairs not converged by then keep their bracket's midpoint.
+MAX_INVERSE_ITERATIONS = 30
 #: Rows solved per engine call (the progress bar advances per chunk).
 CHUNK_ROWS = 4000
 
@@ -275,7 +277,7 @@ def parse_items(
     frame: pd.DataFrame, library: Library | None, settings: BatchSettings
 ) -> tuple[list[Item], list[RowError]]:
     """Resolve every row; rows numbered as a spreadsheet shows them (header = row 1)."""
-    from dropcalc.fall import FallCase
+    from dropcalc.fall import check_object
 
     items: list[Item] = []
     errors: list[RowError] = []
@@ -286,14 +288,9 @@ def parse_items(
         try:
             item = _resolve_row(number, record, library, settings)
             # The same range checks as a single fall.
-            FallCase(
-                mass=item.mass,
-                drag_area=item.drag_area_min,
-                height=item.height,
-                contact_area=item.contact_area,
+            check_object(
+                item.mass, item.drag_area_min, item.height, item.contact_area, item.drag_area_max
             )
-            if item.drag_area_max != item.drag_area_min:
-                FallCase(mass=item.mass, drag_area=item.drag_area_max, height=item.height)
             items.append(item)
         except DropcalcError as exc:
             errors.append(RowError(number, _cell(record, "label"), _cell(record, "id"), str(exc)))
@@ -330,13 +327,35 @@ def _solve(heights: np.ndarray, k: np.ndarray, settings: BatchSettings) -> FallS
     )
 
 
-def _impact_energy(
+def _energy_and_slope(
     heights: np.ndarray, masses: np.ndarray, k: np.ndarray, settings: BatchSettings
-) -> np.ndarray:
-    """Impact energy [J] for each (height, mass, k); NaN where the object did not land."""
+) -> tuple[np.ndarray, np.ndarray]:
+    """Impact energy E [J] from each release height and dE/dH [J/m] there.
+
+    dE/dH = m (v . a) / (-v_z) at impact, with a the acceleration at the ground: exact where the
+    motion does not depend on absolute height (still air, uniform wind), a close slope
+    otherwise. NaN where the object did not land.
+    """
+    from dropcalc.physics.wind import speed_ratio
+
     solution = _solve(heights, k, settings)
-    speed2 = np.sum(solution.velocity**2, axis=0)
-    return np.where(solution.landed, 0.5 * masses * speed2, np.nan)
+    v = solution.velocity
+    wind = settings.wind
+    ratio = float(
+        speed_ratio(
+            0.0, wind.profile, wind.exponent or 0.0, wind.roughness_length or 0.05,
+            wind.minimum_height,
+        )
+    )  # fmt: skip
+    east, north = wind.towards_unit_vector()
+    u = v - np.array([[wind.speed_10m * ratio * east], [wind.speed_10m * ratio * north], [0.0]])
+    drag = k * np.sqrt(np.sum(u * u, axis=0))
+    a = -drag * u
+    a[2] -= settings.gravity
+    energy = np.where(solution.landed, 0.5 * masses * np.sum(v * v, axis=0), np.nan)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        slope = masses * np.sum(v * a, axis=0) / (-v[2])
+    return energy, np.where(solution.landed, slope, np.nan)
 
 
 def safe_heights(
@@ -347,13 +366,14 @@ def safe_heights(
 ) -> np.ndarray:
     """Greatest release height [m] at which the impact energy stays below each level.
 
-    Solved on the engine itself (same wind, release and air as the batch) by the Illinois
-    variant of regula falsi on ln(height), vectorised over all (item, level) pairs, to a
-    relative accuracy of :data:`INVERSE_TOLERANCE` in height. Returns ``inf`` where the level
-    is not reached from :data:`MAX_INVERSE_HEIGHT` and 0 where it is exceeded from any height
-    (a push or throw already carries that energy). The closed form of a still-air drop,
-    h = -(v_t^2 / 2g) ln(1 - v^2/v_t^2) with v^2 = 2E/m (Timmerman and van der Weele 1999),
-    starts the bracket.
+    Solved on the engine itself (same wind, release and air as the batch) by Newton's method on
+    E(H) = level with the slope dE/dH from the impact state, safeguarded by a bracket and
+    bisection, vectorised over all (item, level) pairs, to a relative accuracy of
+    :data:`INVERSE_TOLERANCE` in height. It starts from the closed form of a still-air drop,
+    H = -(v_t^2 / 2g) ln(1 - v^2/v_t^2) with v^2 = 2E/m (Timmerman and van der Weele 1999).
+    Returns ``inf`` where the level cannot be reached (above the highest impact energy
+    possible, 1/2 m (v_t + |v_0| + w_ground)^2, or not reached from :data:`MAX_INVERSE_HEIGHT`)
+    and 0 where the release alone already carries that energy.
 
     Parameters
     ----------
@@ -365,51 +385,61 @@ def safe_heights(
     g = settings.gravity
     n = masses.size
     result = np.full(n, np.nan)
-    if n == 0:
-        return result
-    lo = np.full(n, 0.01)
-    hi = np.full(n, MAX_INVERSE_HEIGHT)
-    f_lo = _impact_energy(lo, masses, k, settings) - energy_levels
-    f_hi = _impact_energy(hi, masses, k, settings) - energy_levels
-    result[f_lo >= 0] = 0.0
-    never = ~(f_hi >= 0) & ~(f_lo >= 0)
-    result[never] = np.inf
+    v0 = np.asarray(
+        initial_velocity(settings.release, settings.edge_azimuth, settings.gravity), dtype=float
+    ).reshape(-1)[:3]
+    speed0 = float(np.linalg.norm(v0))
+    with np.errstate(divide="ignore"):
+        vt = np.sqrt(g / k)
+    # Energy at release already above the level: any height exceeds it.
+    result[0.5 * masses * speed0**2 >= energy_levels] = 0.0
+    # The energy approaches that of the terminal state, falling at v_t relative to the air and
+    # moving with the wind at the ground: 1/2 m (v_t^2 + w_0^2). A drop approaches it from
+    # below, so a level at or above it (and above the release energy) is never reached.
+    from dropcalc.physics.wind import speed_ratio
+
+    wind = settings.wind
+    w0 = wind.speed_10m * float(
+        speed_ratio(
+            0.0, wind.profile, wind.exponent or 0.0, wind.roughness_length or 0.05,
+            wind.minimum_height,
+        )
+    )  # fmt: skip
+    ceiling = 0.5 * masses * (vt**2 + w0**2)
+    result[np.isnan(result) & (ceiling <= energy_levels)] = np.inf
     active = np.flatnonzero(np.isnan(result))
     if active.size == 0:
         return result
-    # Bracket from the still-air closed form where it exists.
-    v2 = 2.0 * energy_levels[active] / masses[active]
+    m, kk, level = masses[active], k[active], energy_levels[active]
+    v2 = 2.0 * level / m
     with np.errstate(divide="ignore", invalid="ignore"):
-        vt2 = g / k[active]
+        vt2 = g / kk
         guess = np.where(v2 < vt2, -vt2 / (2.0 * g) * np.log1p(-v2 / vt2), v2 / (2.0 * g))
-    guess = np.clip(
-        np.nan_to_num(guess, nan=1.0, posinf=MAX_INVERSE_HEIGHT), 0.02, MAX_INVERSE_HEIGHT
-    )
-    x_lo, x_hi = np.log(lo[active]), np.log(hi[active])
-    y_lo, y_hi = f_lo[active], f_hi[active]
-    x_try = np.log(guess)
-    side = np.zeros(active.size)
-    for _ in range(60):
-        y_try = (
-            _impact_energy(np.exp(x_try), masses[active], k[active], settings)
-            - energy_levels[active]
-        )
-        y_try = np.nan_to_num(y_try, nan=-1.0)
-        below = y_try < 0
-        x_lo = np.where(below, x_try, x_lo)
-        y_lo = np.where(below, y_try, y_lo)
-        x_hi = np.where(below, x_hi, x_try)
-        y_hi = np.where(below, y_hi, y_try)
-        # Illinois: halve the value kept twice on the same side.
-        y_hi = np.where(below & (side < 0), y_hi / 2.0, y_hi)
-        y_lo = np.where(~below & (side > 0), y_lo / 2.0, y_lo)
-        side = np.where(below, -1.0, 1.0)
-        converged = (x_hi - x_lo) < INVERSE_TOLERANCE
-        if np.all(converged):
+    h = np.clip(np.nan_to_num(guess, nan=1.0, posinf=MAX_INVERSE_HEIGHT), 0.01, MAX_INVERSE_HEIGHT)
+    lo = np.zeros(active.size)
+    hi = np.full(active.size, np.inf)
+    done = np.zeros(active.size, dtype=bool)
+    for _ in range(MAX_INVERSE_ITERATIONS):
+        todo = np.flatnonzero(~done)
+        if todo.size == 0:
             break
-        x_try = np.where(converged, x_lo, x_lo - y_lo * (x_hi - x_lo) / (y_hi - y_lo))
-        x_try = np.clip(x_try, x_lo + 1e-3 * (x_hi - x_lo), x_hi - 1e-3 * (x_hi - x_lo))
-    result[active] = np.exp(x_lo)
+        energy, slope = _energy_and_slope(h[todo], m[todo], kk[todo], settings)
+        below = ~(energy >= level[todo])  # NaN (not landed) counts as below
+        lo[todo] = np.where(below, np.maximum(lo[todo], h[todo]), lo[todo])
+        hi[todo] = np.where(below, hi[todo], np.minimum(hi[todo], h[todo]))
+        with np.errstate(divide="ignore", invalid="ignore"):
+            newton = h[todo] + (level[todo] - energy) / slope
+        bracket_hi = np.where(np.isfinite(hi[todo]), hi[todo], 2.0 * h[todo] + 1.0)
+        inside = np.isfinite(newton) & (newton > lo[todo]) & (newton < bracket_hi)
+        step = np.where(inside, newton, np.sqrt(np.maximum(lo[todo], 1e-3) * bracket_hi))
+        converged = np.abs(step - h[todo]) <= INVERSE_TOLERANCE * h[todo]
+        at_top = below & (h[todo] >= MAX_INVERSE_HEIGHT)
+        h[todo] = np.minimum(step, MAX_INVERSE_HEIGHT)
+        done[todo] = converged | at_top
+        h[todo[at_top]] = np.inf
+    unconverged = ~done & np.isfinite(hi)
+    h[unconverged] = np.sqrt(np.maximum(lo[unconverged], 1e-3) * hi[unconverged])
+    result[active] = h
     return result
 
 
@@ -522,7 +552,7 @@ def _solve_chunk(items: Sequence[Item], settings: BatchSettings) -> list[dict[st
         }
         for j, lv in enumerate(levels):
             value = float(safe[j, i])
-            row[f"safe_height_{lv.key}_m"] = (
+            row[f"safe_height_{lv.key.replace('-', '_')}_m"] = (
                 None if math.isnan(value) else (value if math.isfinite(value) else "never")
             )
         row["control"] = suggest_control(

@@ -74,6 +74,13 @@ class ReleaseMode(StrEnum):
     roof_slide = "roof-slide"
 
 
+class ListRelease(StrEnum):
+    """Release modes for a whole list."""
+
+    drop = "drop"
+    push = "push"
+
+
 class ProfileName(StrEnum):
     """Wind profile laws."""
 
@@ -438,6 +445,130 @@ def fall(
         typer.echo(json.dumps(result.to_json(), indent=2, allow_nan=False))
     else:
         typer.echo(render_fall(result, units.value))
+
+
+@app.command()
+def batch(
+    file: Annotated[Path, typer.Argument(help="CSV or XLSX list of items (see README).")],
+    height: Annotated[
+        str | None, typer.Option(help="Release height for rows without a height column.")
+    ] = None,
+    wind: WindOpt = "0",
+    wind_kind: WindKindOpt = SpeedKind.mean,
+    wind_from: WindFromOpt = None,
+    wind_profile: WindProfileOpt = None,
+    wind_exponent: WindExponentOpt = None,
+    roughness: RoughnessOpt = None,
+    terrain: TerrainOpt = None,
+    elevation: ElevationOpt = "0",
+    air_temp: AirTempOpt = None,
+    pressure: PressureOpt = None,
+    humidity: HumidityOpt = None,
+    air_density: AirDensityOpt = None,
+    latitude: LatitudeOpt = None,
+    release: Annotated[
+        ListRelease, typer.Option(help="How the items leave the edge.")
+    ] = ListRelease.drop,
+    release_speed: Annotated[
+        str | None, typer.Option(help='Horizontal speed for push, e.g. "1.5 m/s".')
+    ] = None,
+    edge_azimuth: EdgeAzimuthOpt = 90.0,
+    library: LibraryOpt = None,
+    policy: Annotated[
+        Path | None, typer.Option(help="Control rules (TOML) replacing the default policy.")
+    ] = None,
+    levels: Annotated[
+        str | None,
+        typer.Option(help="Reference level keys to check, comma-separated (default: a set of 5)."),
+    ] = None,
+    out: Annotated[
+        Path | None, typer.Option(help="Write all rows to OUT.csv, OUT.xlsx or OUT.json.")
+    ] = None,
+    units: UnitsOpt = UnitSystem.si,
+    as_json: JsonOpt = False,
+) -> None:
+    """Check a list of objects: impact at both drag bounds, levels exceeded, safe heights."""
+    try:
+        from dropcalc.batch import (
+            BatchSettings,
+            error_rows,
+            parse_items,
+            read_table,
+            solve_items,
+            sort_rows,
+        )
+        from dropcalc.output import write_rows
+        from dropcalc.reference_levels import DEFAULT_LEVEL_KEYS, reference_level
+
+        env = _environment(
+            wind=wind, wind_kind=wind_kind, wind_from=wind_from, wind_profile=wind_profile,
+            wind_exponent=wind_exponent, roughness=roughness, terrain=terrain,
+            elevation=elevation, air_temp=air_temp, pressure=pressure, humidity=humidity,
+            air_density=air_density, latitude=latitude, edge_azimuth=edge_azimuth,
+        )  # fmt: skip
+        keys = (
+            DEFAULT_LEVEL_KEYS
+            if levels is None
+            else tuple(k.strip() for k in levels.split(",") if k.strip())
+        )
+        from dropcalc.policy import DEFAULT_RULES, load_policy
+
+        settings = BatchSettings(
+            height=_q(height, "length", "--height"),
+            wind=env.wind,
+            air=env.air,
+            gravity=env.gravity,
+            release=_release(release.value, release_speed),
+            edge_azimuth=edge_azimuth,
+            levels=tuple(reference_level(k) for k in keys),
+            rules=DEFAULT_RULES if policy is None else load_policy(policy),
+        )
+        frame = read_table(file)
+        lib = None
+        if "id" in frame.columns:
+            from dropcalc.library import load_library
+
+            lib = load_library(library)
+        items, errors = parse_items(frame, lib, settings)
+        rows = sort_rows(solve_items(items, settings, _progress(as_json)) + error_rows(errors))
+        if out is not None:
+            write_rows(out, rows)
+    except DropcalcError as exc:
+        _fail(str(exc))
+        return
+    if as_json:
+        typer.echo(json.dumps(rows, indent=2, allow_nan=False))
+    else:
+        from dropcalc.render import render_batch
+
+        ignored = frame.attrs.get("ignored_columns", [])
+        typer.echo(render_batch(rows, settings, units.value, ignored, out))
+    for error in errors:
+        typer.echo(f"dropcalc: {file.name}: row {error.row}: {error.message}", err=True)
+    if errors:
+        raise typer.Exit(1)
+
+
+def _progress(quiet: bool) -> Any:
+    """A progress callback drawing a bar on a terminal; None when quiet or not a terminal."""
+    if quiet or not sys.stderr.isatty():
+        return None
+    from rich.progress import Progress
+
+    state: dict[str, Any] = {}
+
+    def update(done: int, total: int) -> None:
+        if total < 2000:  # a short list finishes before a bar is worth drawing
+            return
+        if "bar" not in state:
+            state["bar"] = Progress(transient=True)
+            state["bar"].start()
+            state["task"] = state["bar"].add_task("solving", total=total)
+        state["bar"].update(state["task"], completed=done)
+        if done >= total:
+            state["bar"].stop()
+
+    return update
 
 
 def main() -> None:

@@ -44,6 +44,38 @@ def _check_range(name: str, value: float, low: float, high: float, unit: str) ->
     return v
 
 
+def check_object(
+    mass: float,
+    drag_area: float,
+    height: float,
+    contact_area: float | None = None,
+    drag_area_max: float | None = None,
+) -> None:
+    """Raise InputError unless the object and release height are within the model's ranges.
+
+    Parameters
+    ----------
+    mass : float
+        [kg]
+    drag_area : float
+        Smallest (or only) drag area. [m^2]
+    height : float
+        Release height. [m]
+    contact_area : float or None
+        [m^2]
+    drag_area_max : float or None
+        Largest drag area, >= ``drag_area``. [m^2]
+    """
+    _check_range("mass", mass, *MASS_RANGE, "kg")
+    _check_range("drag_area", drag_area, *DRAG_AREA_RANGE, "m²")
+    require_finite_positive("height", height, "m")
+    _check_range("height", height, 0.0, MAX_RELEASE_HEIGHT, "m")
+    if drag_area_max is not None:
+        _check_range("drag_area_max", drag_area_max, drag_area, DRAG_AREA_RANGE[1], "m²")
+    if contact_area is not None:
+        _check_range("contact_area", contact_area, *CONTACT_AREA_RANGE, "m²")
+
+
 @dataclass(frozen=True)
 class FallCase:
     """Validated inputs of one fall, SI units.
@@ -92,16 +124,7 @@ class FallCase:
     glides: bool = False
 
     def __post_init__(self) -> None:
-        _check_range("mass", self.mass, *MASS_RANGE, "kg")
-        _check_range("drag_area", self.drag_area, *DRAG_AREA_RANGE, "m²")
-        require_finite_positive("height", self.height, "m")
-        _check_range("height", self.height, 0.0, MAX_RELEASE_HEIGHT, "m")
-        if self.drag_area_max is not None:
-            _check_range(
-                "drag_area_max", self.drag_area_max, self.drag_area, DRAG_AREA_RANGE[1], "m²"
-            )
-        if self.contact_area is not None:
-            _check_range("contact_area", self.contact_area, *CONTACT_AREA_RANGE, "m²")
+        check_object(self.mass, self.drag_area, self.height, self.contact_area, self.drag_area_max)
         if not math.isfinite(self.edge_azimuth):
             raise InputError(
                 f"edge_azimuth must be a finite angle in degrees; got {self.edge_azimuth}"

@@ -161,3 +161,69 @@ def render_fall(result: FallResult, system: str = "si") -> str:
     lines.append("")
     lines.extend(textwrap.wrap("Caution: " + CAUTION_SHORT, 90))
     return "\n".join(lines)
+
+
+def _short_control(text: str) -> str:
+    return text.split(":")[0].split(";")[0].split(" (")[0]
+
+
+def render_batch(
+    rows: list[dict],
+    settings: object,
+    system: str = "si",
+    ignored_columns: list[str] | None = None,
+    out: object | None = None,
+    limit: int = 40,
+) -> str:
+    """A readable table of batch rows (highest energy first) with a summary and the caution."""
+    good = [r for r in rows if not r.get("error")]
+    bad = [r for r in rows if r.get("error")]
+    header = ("row", "item", "mass", "energy max", "speed max", "J/cm²", "drift max", "control")
+    table = []
+    for r in good[:limit]:
+        epa = r.get("energy_per_contact_area_j_cm2")
+        energy = r.get("impact_energy_max_j")
+        table.append(
+            (
+                str(r["row"]),
+                str(r.get("label") or r.get("id"))[:28],
+                _fmt(r["mass_kg"], "mass", system),
+                "—" if energy is None else _fmt(energy, "energy", system),
+                "—"
+                if r.get("impact_speed_max_m_s") is None
+                else _fmt(r["impact_speed_max_m_s"], "speed", system),
+                "—" if epa is None else f"{epa:.3g}",
+                "—" if r.get("drift_max_m") is None else _fmt(r["drift_max_m"], "length", system),
+                _short_control(str(r.get("control", ""))),
+            )
+        )
+    widths = [max(len(h), *(len(t[i]) for t in table)) if table else len(h) for i, h in
+              enumerate(header)]  # fmt: skip
+    lines = ["dropcalc batch: impact of each item (highest energy first)", ""]
+    lines.append("  ".join(h.ljust(w) for h, w in zip(header, widths, strict=True)).rstrip())
+    lines.extend(
+        "  ".join(c.ljust(w) for c, w in zip(t, widths, strict=True)).rstrip() for t in table
+    )
+    if len(good) > limit:
+        lines.append(
+            f"... {len(good) - limit} more rows" + (f" in {out}" if out else " (use --out)")
+        )
+    lines.append("")
+    if good:
+        worst = good[0]
+        lines.append(
+            f"{len(good)} item(s) solved; highest energy: {worst.get('label') or worst.get('id')} "
+            f"(row {worst['row']}), {_fmt(worst['impact_energy_max_j'] or 0, 'energy', system)} "
+            "at its smallest drag area."
+        )
+    if bad:
+        lines.append(f"{len(bad)} row(s) failed: see the error lines below and the error column.")
+    if ignored_columns:
+        lines.append(f"Ignored column(s): {', '.join(ignored_columns)}.")
+    if any(r.get("glides") for r in good):
+        lines.append("Sheets and plates in the list can glide far in wind: drift not conservative.")
+    if out:
+        lines.append(f"All rows written to {out}.")
+    lines.append("")
+    lines.extend(textwrap.wrap("Caution: " + CAUTION_SHORT, 90))
+    return "\n".join(lines)

@@ -91,3 +91,19 @@ WGS84_FIRST_ECCENTRICITY_SQUARED = 0.00669437999013
 #: Conventional free-air gradient of normal gravity [1/s^2] (-0.3086 mGal/m), linear
 #: approximation of NIMA TR8350.2 (2000), eq. 4-3. REFERENCES.md §5.
 FREE_AIR_GRADIENT = -3.086e-6
+
+# --- Shape-based drag (used by dropcalc.physics.shapes) --------------------------------------
+
+#: Tumbling drag area divided by the mean projected area S/4 of a convex body [-].
+#: REFERENCES.md §2 gives (1.0-1.1) S/4, derived from Ganser, Powder Technol. 77 (1993) 143-152;
+#: the middle of that range is taken.
+TUMBLING_DRAG_FACTOR = 1.05
+
+#: Fraction of its bounding box's projected area that a compact irregular body (a hammer, a
+#: drill, a radio) presents [-]. Common practice, no source.
+IRREGULAR_COMPACTNESS_FACTOR = 0.8
+
+#: Thickness over the next-larger dimension below which a flat body (sheet, board, disc) is
+#: flagged as able to glide and autorotate [-]. Common practice, no source; the flying behaviour
+#: of sheets is from Holmes, Letchford & Lin, J. Wind Eng. Ind. Aerodyn. 94 (2006) 21-39.
+GLIDE_THICKNESS_RATIO = 0.1
