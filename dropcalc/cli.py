@@ -549,6 +549,94 @@ def batch(
         raise typer.Exit(1)
 
 
+objects_app = typer.Typer(
+    help="Browse the object library: list, filter, search, show one object.",
+    no_args_is_help=False,
+)
+app.add_typer(objects_app, name="objects")
+
+#: Columns of the object list (terminal) and of its CSV export.
+_OBJECT_COLUMNS = (
+    "id", "name", "category", "mass_kg", "shape", "drag_area_min_m2", "drag_area_max_m2",
+    "contact_area_m2", "hazards", "source",
+)  # fmt: skip
+
+
+@objects_app.callback(invoke_without_command=True)
+def objects(
+    ctx: typer.Context,
+    category: Annotated[str | None, typer.Option(help="Only this category.")] = None,
+    search: Annotated[
+        str | None, typer.Option(help="Only objects whose id, name or notes contain every word.")
+    ] = None,
+    library: LibraryOpt = None,
+    csv: Annotated[
+        Path | None, typer.Option("--csv", help="Write the listed objects to a CSV file.")
+    ] = None,
+    units: UnitsOpt = UnitSystem.si,
+    as_json: JsonOpt = False,
+) -> None:
+    """List the library's objects (or `objects show ID` for one)."""
+    if ctx.invoked_subcommand is not None:
+        return
+    try:
+        from dropcalc.library import load_library
+
+        lib = load_library(library)
+        chosen = list(lib.search(search) if search else lib)
+        if category is not None:
+            if category not in lib.categories():
+                raise InputError(
+                    f"--category: unknown category {category!r}; known: "
+                    f"{', '.join(lib.categories())}"
+                )
+            chosen = [o for o in chosen if o.category == category]
+        records = [o.to_json() for o in chosen]
+        if csv is not None:
+            from dropcalc.output import write_rows
+
+            if csv.suffix.lower() != ".csv":
+                raise InputError(f"--csv must end in .csv; got {csv.name}")
+            flat = [
+                {**{k: r[k] for k in _OBJECT_COLUMNS if k != "hazards"},
+                 "hazards": "; ".join(r["hazards"])}
+                for r in records
+            ]  # fmt: skip
+            write_rows(csv, flat)
+    except DropcalcError as exc:
+        _fail(str(exc))
+        return
+    if as_json:
+        typer.echo(json.dumps(records, indent=2, allow_nan=False))
+        return
+    from dropcalc.render import render_objects
+
+    typer.echo(render_objects(chosen, units.value))
+
+
+@objects_app.command("show")
+def objects_show(
+    object_id: Annotated[str, typer.Argument(metavar="ID", help="Object id.")],
+    library: LibraryOpt = None,
+    units: UnitsOpt = UnitSystem.si,
+    as_json: JsonOpt = False,
+) -> None:
+    """Show every property of one object with its source."""
+    try:
+        from dropcalc.library import load_library
+
+        obj = load_library(library).get(object_id)
+    except DropcalcError as exc:
+        _fail(str(exc))
+        return
+    if as_json:
+        typer.echo(json.dumps(obj.to_json(), indent=2, allow_nan=False))
+        return
+    from dropcalc.render import render_object
+
+    typer.echo(render_object(obj, units.value))
+
+
 def _progress(quiet: bool) -> Any:
     """A progress callback drawing a bar on a terminal; None when quiet or not a terminal."""
     if quiet or not sys.stderr.isatty():

@@ -227,3 +227,60 @@ def render_batch(
     lines.append("")
     lines.extend(textwrap.wrap("Caution: " + CAUTION_SHORT, 90))
     return "\n".join(lines)
+
+
+def render_objects(objects: list, system: str = "si") -> str:
+    """A compact table of library objects."""
+    header = ("id", "mass", "shape", "Cd·A min–max", "category")
+    rows = [
+        (
+            o.id,
+            _fmt(o.mass, "mass", system),
+            o.shape,
+            _fmt(o.drag_area_min, "area", system, 2)
+            + "–"
+            + _fmt(o.drag_area_max, "area", system, 2),
+            o.category,
+        )
+        for o in objects
+    ]
+    if not rows:
+        return "No object matches."
+    widths = [max(len(h), *(len(r[i]) for r in rows)) for i, h in enumerate(header)]
+    lines = ["  ".join(h.ljust(w) for h, w in zip(header, widths, strict=True)).rstrip()]
+    lines += ["  ".join(c.ljust(w) for c, w in zip(r, widths, strict=True)).rstrip() for r in rows]
+    lines.append(f"{len(rows)} object(s). `dropcalc objects show ID` gives every property.")
+    return "\n".join(lines)
+
+
+def render_object(obj: object, system: str = "si") -> str:
+    """Every property of one library object with its source."""
+    o = obj
+    dims = ", ".join(f"{k} {_fmt(v, 'length', system)}" for k, v in o.dimensions.items())
+    contact = _fmt(o.contact_area, "area", system) if o.contact_area else "not given"
+    rows = [
+        ("Name", o.name),
+        ("Category", o.category),
+        ("Mass", f"{_fmt(o.mass, 'mass', system)} ({o.mass_basis})"),
+        ("Mass source", o.mass_source),
+        ("Shape", f"{o.shape}: {dims}"),
+        ("Size source", o.size_source),
+        ("Drag area", f"{_fmt(o.drag_area_min, 'area', system)} smallest (highest energy), "
+                      f"{_fmt(o.drag_area_typical, 'area', system)} tumbling, "
+                      f"{_fmt(o.drag_area_max, 'area', system)} largest (longest drift)"),
+        ("Drag basis", o.drag_basis),
+        ("Contact area", contact),
+        ("Hazards", ", ".join(o.hazards) or "none listed"),
+        ("Fragile", "yes: may break on impact" if o.fragile else "no"),
+        ("Notes", o.notes or "—"),
+    ]  # fmt: skip
+    lines = [f"{o.id}"]
+    for label, text in rows:
+        wrapped = textwrap.wrap(str(text), 78) or [""]
+        lines.append(f"  {label:<13}{wrapped[0]}")
+        lines.extend(f"  {'':<13}{w}" for w in wrapped[1:])
+    if o.glides:
+        from dropcalc.physics.shapes import GLIDE_WARNING
+
+        lines.extend(textwrap.wrap("WARNING: " + GLIDE_WARNING, 90))
+    return "\n".join(lines)
