@@ -21,11 +21,12 @@ from typing import TYPE_CHECKING, Any
 import numpy as np
 
 from dropcalc.errors import DropcalcError, InputError
+from dropcalc.fall import wind_field
 from dropcalc.physics.atmosphere import AirState, air_state
 from dropcalc.physics.drag import drag_parameter
 from dropcalc.physics.impact import impact_from_solution
 from dropcalc.physics.release import Release, initial_velocity
-from dropcalc.physics.trajectory import FallSolution, WindField, solve_falls
+from dropcalc.physics.trajectory import FallSolution, solve_falls
 from dropcalc.physics.wind import WindSpec, wind_spec
 from dropcalc.policy import DEFAULT_RULES, ControlRule, suggest_control
 from dropcalc.reference_levels import DEFAULT_LEVEL_KEYS, REFERENCE_LEVELS, ReferenceLevel
@@ -301,19 +302,6 @@ def parse_items(
 # Solving
 
 
-def _wind_field(wind: WindSpec, n: int) -> WindField:
-    east, north = wind.towards_unit_vector()
-    return WindField(
-        speed_10m=np.full(n, wind.speed_10m),
-        toward_east=east,
-        toward_north=north,
-        profile=wind.profile,
-        exponent=wind.exponent or 0.0,
-        roughness_length=wind.roughness_length or 0.05,
-        minimum_height=wind.minimum_height,
-    )
-
-
 def _solve(heights: np.ndarray, k: np.ndarray, settings: BatchSettings) -> FallSolution:
     v0 = np.asarray(
         initial_velocity(settings.release, settings.edge_azimuth, settings.gravity), dtype=float
@@ -323,7 +311,7 @@ def _solve(heights: np.ndarray, k: np.ndarray, settings: BatchSettings) -> FallS
         v0.reshape(3, 1) * np.ones((1, heights.size)),
         k,
         gravity=settings.gravity,
-        wind=_wind_field(settings.wind, heights.size),
+        wind=wind_field(settings.wind, np.full(heights.size, settings.wind.speed_10m)),
     )
 
 
@@ -478,7 +466,7 @@ def _solve_chunk(items: Sequence[Item], settings: BatchSettings) -> list[dict[st
     k_max = drag_parameter(rho, area_max, mass)  # longest drift
     both_k = np.concatenate([k_min, k_max])
     solution = _solve(np.concatenate([height, height]), both_k, settings)
-    wind = _wind_field(settings.wind, 2 * n)
+    wind = wind_field(settings.wind, np.full(2 * n, settings.wind.speed_10m))
     impact = impact_from_solution(
         solution, np.concatenate([mass, mass]), both_k, settings.gravity, wind
     )

@@ -231,7 +231,8 @@ class FallResult:
         return out
 
 
-def _wind_field(wind: WindSpec, speeds: np.ndarray) -> WindField:
+def wind_field(wind: WindSpec, speeds: np.ndarray) -> WindField:
+    """The engine's WindField for a WindSpec at the given 10 m speeds (one per trajectory)."""
     east, north = wind.towards_unit_vector()
     return WindField(
         speed_10m=speeds,
@@ -272,17 +273,17 @@ def solve_fall(case: FallCase) -> FallResult:
         speeds_arr = np.concatenate([speeds_arr, speeds_arr])
         ks = np.concatenate([ks, np.full(n, k_max)])
     v0 = np.asarray(initial_velocity(case.release, case.edge_azimuth, case.gravity), dtype=float)
-    wind_field = _wind_field(case.wind, speeds_arr)
+    field_of_wind = wind_field(case.wind, speeds_arr)
     solution = solve_falls(
         case.height,
         v0.reshape(3, 1),
         ks,
         gravity=case.gravity,
-        wind=wind_field,
+        wind=field_of_wind,
         max_distance=CARRIED_AWAY_DISTANCE,
     )
     impact = impact_from_solution(
-        solution, case.mass, ks, case.gravity, wind_field, case.contact_area
+        solution, case.mass, ks, case.gravity, field_of_wind, case.contact_area
     )
     impacts = [_pick(impact, i) for i in range(len(speeds))]
     max_drag = [_pick(impact, n + i) if case.drag_area_max is not None else None for i in range(n)]
