@@ -21,7 +21,7 @@ from typing import TYPE_CHECKING, Any
 import numpy as np
 
 from dropcalc.errors import DropcalcError, InputError
-from dropcalc.fall import wind_field
+from dropcalc.fall import CARRIED_AWAY_DISTANCE, wind_field
 from dropcalc.physics.atmosphere import AirState, air_state
 from dropcalc.physics.drag import drag_parameter
 from dropcalc.physics.impact import impact_from_solution
@@ -168,9 +168,10 @@ def read_table(path: Path) -> pd.DataFrame:
                 separator = ","
             import io
 
+            # Blank lines are kept (and skipped later) so rows keep the numbers a spreadsheet shows.
             frame = pd.read_csv(
                 io.StringIO(text), sep=separator, dtype=str, keep_default_na=False,
-                skipinitialspace=True,
+                skipinitialspace=True, skip_blank_lines=False,
             )  # fmt: skip
         else:
             raise InputError(f"{path}: expected a .csv or .xlsx file; got {suffix or 'no suffix'}")
@@ -310,6 +311,7 @@ def _solve(heights: np.ndarray, k: np.ndarray, settings: BatchSettings) -> FallS
         heights,
         v0.reshape(3, 1) * np.ones((1, heights.size)),
         k,
+        max_distance=CARRIED_AWAY_DISTANCE,
         gravity=settings.gravity,
         wind=wind_field(settings.wind, np.full(heights.size, settings.wind.speed_10m)),
     )
@@ -393,8 +395,28 @@ def safe_heights(
             wind.minimum_height,
         )
     )  # fmt: skip
-    ceiling = 0.5 * masses * (vt**2 + w0**2)
+    # A drop's vertical speed never exceeds v_t and its horizontal speed never exceeds the
+    # fastest wind it passes through (the wind at the top of the range for a profile that grows
+    # with height), so 1/2 m (v_t^2 + w_max^2) bounds its energy; a release speed is added to
+    # both parts. A level at or above the bound is never reached.
+    if wind.profile != "uniform":
+        w0 = wind.speed_10m * float(
+            speed_ratio(
+                MAX_INVERSE_HEIGHT, wind.profile, wind.exponent or 0.0,
+                wind.roughness_length or 0.05, wind.minimum_height,
+            )
+        )  # fmt: skip
+    ceiling = 0.5 * masses * ((vt + speed0) ** 2 + (w0 + speed0) ** 2)
     result[np.isnan(result) & (ceiling <= energy_levels)] = np.inf
+    # The terminal state in the wind at the ground: levels near or above its energy may
+    # plateau out of reach (checked below); levels well under it are reached at some height.
+    w_ground = wind.speed_10m * float(
+        speed_ratio(
+            0.0, wind.profile, wind.exponent or 0.0, wind.roughness_length or 0.05,
+            wind.minimum_height,
+        )
+    )  # fmt: skip
+    near_terminal = energy_levels >= 0.9 * 0.5 * masses * (vt**2 + w_ground**2)
     active = np.flatnonzero(np.isnan(result))
     if active.size == 0:
         return result
@@ -407,26 +429,64 @@ def safe_heights(
     lo = np.zeros(active.size)
     hi = np.full(active.size, np.inf)
     done = np.zeros(active.size, dtype=bool)
-    for _ in range(MAX_INVERSE_ITERATIONS):
+    # Past ten relaxation lengths v_t^2/g the impact state no longer depends on the height (the
+    # object has forgotten its release): if the level is not reached there, it never is.
+    plateau = np.minimum(10.0 * vt[active] ** 2 / g + 100.0, MAX_INVERSE_HEIGHT)
+    far = np.flatnonzero((plateau > 2.0 * h) & near_terminal[active])
+    if far.size:
+        energy_far, _ = _energy_and_slope(plateau[far], m[far], kk[far], settings)
+        unreached = ~(energy_far >= level[far])
+        h[far[unreached]] = np.inf
+        done[far[unreached]] = True
+        hi[far[~unreached]] = plateau[far[~unreached]]
+    h_prev = np.full(active.size, np.nan)
+    e_prev = np.full(active.size, np.nan)
+    e_lo = np.zeros(active.size)  # energy at lo (0 at H = 0 for a drop: a safe lower end)
+    e_hi = np.full(active.size, np.nan)
+    for iteration in range(MAX_INVERSE_ITERATIONS):
         todo = np.flatnonzero(~done)
         if todo.size == 0:
             break
-        energy, slope = _energy_and_slope(h[todo], m[todo], kk[todo], settings)
+        ht = h[todo]
+        energy, slope = _energy_and_slope(ht, m[todo], kk[todo], settings)
         below = ~(energy >= level[todo])  # NaN (not landed) counts as below
-        lo[todo] = np.where(below, np.maximum(lo[todo], h[todo]), lo[todo])
-        hi[todo] = np.where(below, hi[todo], np.minimum(hi[todo], h[todo]))
+        lo[todo] = np.where(below, np.maximum(lo[todo], ht), lo[todo])
+        e_lo[todo] = np.where(below, np.nan_to_num(energy, nan=0.0), e_lo[todo])
+        hi[todo] = np.where(below, hi[todo], np.minimum(hi[todo], ht))
+        e_hi[todo] = np.where(below, e_hi[todo], energy)
+        lower, upper, el, eu = lo[todo], hi[todo], e_lo[todo], e_hi[todo]
         with np.errstate(divide="ignore", invalid="ignore"):
-            newton = h[todo] + (level[todo] - energy) / slope
-        bracket_hi = np.where(np.isfinite(hi[todo]), hi[todo], 2.0 * h[todo] + 1.0)
-        inside = np.isfinite(newton) & (newton > lo[todo]) & (newton < bracket_hi)
-        step = np.where(inside, newton, np.sqrt(np.maximum(lo[todo], 1e-3) * bracket_hi))
-        converged = np.abs(step - h[todo]) <= INVERSE_TOLERANCE * h[todo]
-        at_top = below & (h[todo] >= MAX_INVERSE_HEIGHT)
+            # Newton with the impact-state slope on the first round, then the secant through
+            # the last two rounds (the impact slope is exact only in a height-independent wind).
+            secant = (energy - e_prev[todo]) / (ht - h_prev[todo])
+            use_secant = np.isfinite(secant) & (secant > 0)
+            newton = ht + (level[todo] - energy) / np.where(use_secant, secant, slope)
+            h_prev[todo], e_prev[todo] = ht, energy
+            # Regula falsi inside the bracket; every third round a bisection keeps it shrinking.
+            falsi = lower + (level[todo] - el) * (upper - lower) / (eu - el)
+        bracketed = np.isfinite(upper)
+        inside = (
+            np.isfinite(newton) & (newton > lower) & (newton < np.where(bracketed, upper, np.inf))
+        )
+        fallback = np.where(
+            bracketed,
+            np.where(
+                np.isfinite(falsi) & (falsi > lower) & (falsi < upper) & (iteration % 3 != 2),
+                falsi,
+                0.5 * (lower + upper),
+            ),
+            2.0 * ht + 1.0,
+        )
+        step = np.where(inside, newton, fallback)
+        converged = (np.abs(step - ht) <= INVERSE_TOLERANCE * ht) | (
+            bracketed & (upper - lower <= INVERSE_TOLERANCE * upper)
+        )
+        at_top = below & (ht >= MAX_INVERSE_HEIGHT)
         h[todo] = np.minimum(step, MAX_INVERSE_HEIGHT)
         done[todo] = converged | at_top
         h[todo[at_top]] = np.inf
     unconverged = ~done & np.isfinite(hi)
-    h[unconverged] = np.sqrt(np.maximum(lo[unconverged], 1e-3) * hi[unconverged])
+    h[unconverged] = 0.5 * (lo[unconverged] + hi[unconverged])
     result[active] = h
     return result
 

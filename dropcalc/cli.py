@@ -523,7 +523,11 @@ def batch(
             levels=tuple(reference_level(k) for k in keys),
             rules=DEFAULT_RULES if policy is None else load_policy(policy),
         )
+        if out is not None and out.suffix.lower() not in (".csv", ".xlsx", ".json"):
+            raise InputError(f"--out must end in .csv, .xlsx or .json; got {out.name}")
         frame = read_table(file)
+        if settings.height is None and "height" not in frame.columns:
+            raise InputError(f"{file.name}: no release height: give --height or a 'height' column")
         lib = None
         if "id" in frame.columns:
             from dropcalc.library import load_library
@@ -547,6 +551,193 @@ def batch(
         typer.echo(f"dropcalc: {file.name}: row {error.row}: {error.message}", err=True)
     if errors:
         raise typer.Exit(1)
+
+
+@app.command()
+def zone(
+    height: Annotated[str, typer.Option(help='Work height above the ground, e.g. "18 m".')],
+    object_ids: Annotated[
+        list[str] | None,
+        typer.Option("--object", help="Library object id; repeat for several objects."),
+    ] = None,
+    items: Annotated[
+        Path | None, typer.Option(help="A batch list (CSV/XLSX) of the objects in use.")
+    ] = None,
+    mass: Annotated[str | None, typer.Option(help="Custom object: mass.")] = None,
+    drag_area: Annotated[
+        str | None, typer.Option(help="Custom object: drag area Cd·A (or a min,max pair).")
+    ] = None,
+    ground: Annotated[
+        str, typer.Option(help="Landing surface: concrete, asphalt, compacted-soil, gravel, grass.")
+    ] = "concrete",
+    confidence: Annotated[
+        float, typer.Option(help="Share of simulated drops the radius must contain (0.99, 0.999).")
+    ] = 0.99,
+    margin: Annotated[str, typer.Option(help='Margin added to the radius, e.g. "2 m".')] = "2 m",
+    precision: Annotated[
+        float, typer.Option(help="Target standard error of the radius, relative (0.01 = 1 %).")
+    ] = 0.01,
+    seed: Annotated[int, typer.Option(help="Random seed (same seed, same answer).")] = 1,
+    barricade: Annotated[
+        str | None,
+        typer.Option(
+            help="A barricade distance: also report the highest wind and the greatest work "
+            "height for which it still holds."
+        ),
+    ] = None,
+    wind: WindOpt = "0",
+    wind_kind: WindKindOpt = SpeedKind.mean,
+    wind_from: WindFromOpt = None,
+    wind_profile: WindProfileOpt = None,
+    wind_exponent: WindExponentOpt = None,
+    roughness: RoughnessOpt = None,
+    terrain: TerrainOpt = None,
+    elevation: ElevationOpt = "0",
+    air_temp: AirTempOpt = None,
+    pressure: PressureOpt = None,
+    humidity: HumidityOpt = None,
+    air_density: AirDensityOpt = None,
+    latitude: LatitudeOpt = None,
+    release: Annotated[
+        ReleaseMode, typer.Option(help="How objects leave the edge.")
+    ] = ReleaseMode.drop,
+    release_speed: Annotated[
+        str | None, typer.Option(help="Highest push or throw speed, or roof-slide start speed.")
+    ] = None,
+    release_angle: Annotated[str | None, typer.Option(help="Throw angle (deg).")] = None,
+    roof_pitch: Annotated[str | None, typer.Option(help="Roof pitch for roof-slide (deg).")] = None,
+    roof_length: Annotated[str | None, typer.Option(help="Slope length to the eave.")] = None,
+    friction: Annotated[float | None, typer.Option(help="Roof friction (roof-slide).")] = None,
+    edge_azimuth: EdgeAzimuthOpt = 90.0,
+    library: LibraryOpt = None,
+    units: UnitsOpt = UnitSystem.si,
+    as_json: JsonOpt = False,
+) -> None:
+    """Exclusion distance from the work edge: Monte Carlo at a confidence, and the worst case."""
+    try:
+        from dropcalc.physics.scatter import surface
+        from dropcalc.zone import ZoneSettings, compute_zone, greatest_height, highest_wind
+
+        env = _environment(
+            wind=wind, wind_kind=wind_kind, wind_from=wind_from, wind_profile=wind_profile,
+            wind_exponent=wind_exponent, roughness=roughness, terrain=terrain,
+            elevation=elevation, air_temp=air_temp, pressure=pressure, humidity=humidity,
+            air_density=air_density, latitude=latitude, edge_azimuth=edge_azimuth,
+        )  # fmt: skip
+        objects = _zone_objects(object_ids, items, mass, drag_area, library, height)
+        settings = ZoneSettings(
+            height=float(_q(height, "length", "--height")),
+            release=_release(
+                release.value, release_speed, release_angle, roof_pitch, roof_length, friction
+            ),
+            wind=env.wind,
+            air=env.air,
+            gravity=env.gravity,
+            edge_azimuth=edge_azimuth,
+            ground=surface(ground),
+            confidence=confidence,
+            margin=float(_q(margin, "length", "--margin")),
+            relative_error=precision,
+            seed=seed,
+        )
+        result = compute_zone(objects, settings, _progress(as_json))
+        limits = None
+        if barricade is not None:
+            distance = float(_q(barricade, "length", "--barricade"))
+            if not distance > 0:
+                raise InputError(f"--barricade must be a distance > 0 m; got {barricade}")
+            limits = (
+                distance,
+                highest_wind(objects, settings, distance),
+                greatest_height(objects, settings, distance),
+            )
+    except DropcalcError as exc:
+        _fail(str(exc))
+        return
+    from dropcalc.render import render_zone, zone_json
+
+    if as_json:
+        typer.echo(json.dumps(zone_json(result, limits), indent=2, allow_nan=False))
+    else:
+        typer.echo(render_zone(result, units.value, limits))
+
+
+def _zone_objects(
+    object_ids: list[str] | None,
+    items: Path | None,
+    mass: str | None,
+    drag_area: str | None,
+    library: Path | None,
+    height: str,
+) -> list[Any]:
+    """The zone's objects from --object, --items or --mass/--drag-area (raises InputError)."""
+    from dropcalc.zone import ZoneObject
+
+    objects: list[ZoneObject] = []
+    if object_ids or items is not None:
+        from dropcalc.library import load_library
+
+        lib = load_library(library)
+        for object_id in object_ids or []:
+            obj = lib.get(object_id)
+            objects.append(_zone_object(obj))
+        if items is not None:
+            from dropcalc.batch import BatchSettings, parse_items, read_table
+
+            frame = read_table(items)
+            parsed, errors = parse_items(
+                frame, lib, BatchSettings(height=float(_q(height, "length", "--height")))
+            )
+            if errors:
+                first = errors[0]
+                raise InputError(f"{items.name}: row {first.row}: {first.message}")
+            for item in parsed:
+                known = lib.get(item.object_id) if item.object_id else None
+                objects.append(
+                    _zone_object(known)
+                    if known is not None
+                    else ZoneObject(
+                        name=item.label or f"row {item.row}",
+                        mass=item.mass,
+                        drag_area_min=item.drag_area_min,
+                        drag_area_max=item.drag_area_max,
+                        quantity=item.quantity,
+                        glides=item.glides,
+                        fragile=item.fragile,
+                    )
+                )
+    if mass is not None or drag_area is not None:
+        if mass is None or drag_area is None:
+            raise InputError("a custom object needs both --mass and --drag-area")
+        parts = [p for p in drag_area.split(",") if p.strip()]
+        areas = [float(_q(p.strip(), "area", "--drag-area")) for p in parts]
+        if len(areas) not in (1, 2) or min(areas) <= 0:
+            raise InputError(f"--drag-area: expected one area or a min,max pair; got {drag_area}")
+        from dropcalc.fall import check_object
+
+        m = float(_q(mass, "mass", "--mass"))
+        check_object(m, min(areas), 1.0, None, max(areas))
+        objects.append(ZoneObject("custom object", m, min(areas), max(areas)))
+    if not objects:
+        raise InputError(
+            "give the objects: --object ID (repeatable), --items FILE, or --mass with --drag-area"
+        )
+    return objects
+
+
+def _zone_object(obj: Any) -> Any:
+    from dropcalc.zone import ZoneObject
+
+    return ZoneObject(
+        name=obj.name,
+        mass=obj.mass,
+        drag_area_min=obj.drag_area_min,
+        drag_area_max=obj.drag_area_max,
+        object_id=obj.id,
+        fragile=obj.fragile,
+        rolls="rolls" in obj.hazards,
+        glides=obj.glides,
+    )
 
 
 objects_app = typer.Typer(

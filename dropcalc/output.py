@@ -34,6 +34,10 @@ def write_atomic(path: Path, write: Callable[[Path], None]) -> None:
     os.close(fd)
     try:
         write(Path(temporary))
+        # mkstemp makes the file private (0600); give it the mode a new file normally gets.
+        umask = os.umask(0)
+        os.umask(umask)
+        os.chmod(temporary, 0o666 & ~umask)
         os.replace(temporary, path)
     except OSError as exc:
         raise InputError(f"{path}: cannot write ({exc.strerror})") from None

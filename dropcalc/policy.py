@@ -164,6 +164,8 @@ def load_policy(path: Path) -> tuple[ControlRule, ...]:
     rules = []
     for number, raw in enumerate(raw_rules, start=1):
         where = f"{path}: rule[{number}]"
+        if not isinstance(raw, dict):
+            raise InputError(f"{where}: expected a [[rule]] table; got {raw!r}")
         unknown = set(raw) - allowed
         if unknown:
             names = ", ".join(sorted(allowed))

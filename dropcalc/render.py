@@ -284,3 +284,143 @@ def render_object(obj: object, system: str = "si") -> str:
 
         lines.extend(textwrap.wrap("WARNING: " + GLIDE_WARNING, 90))
     return "\n".join(lines)
+
+
+def zone_json(result: object, limits: tuple[float, float, float] | None = None) -> dict:
+    """The zone JSON contract (DESIGN.md) plus per-object figures and the statement in words."""
+    r = result
+    s = r.settings
+    d = r.driver
+
+    def finite(value: float) -> float | None:
+        return float(value) if math.isfinite(value) else None
+
+    out = {
+        "radius_m": finite(r.radius),
+        "confidence": s.confidence,
+        "drift_m": finite(d.drift),
+        "scatter_m": finite(d.scatter),
+        "margin_m": s.margin,
+        "worst_case_radius_m": finite(r.worst_case),
+        "standard_error_m": finite(d.standard_error),
+        "samples": d.samples,
+        "driving_object": d.obj.name,
+        "driving_object_id": d.obj.object_id or None,
+        "worst_case_object": r.worst_case_driver.obj.name,
+        "height_m": s.height,
+        "release_mode": s.release.mode,
+        "wind_speed_10m_m_s": s.wind.speed_10m,
+        "wind_speed_kind": s.wind.kind,
+        "gust_speed_10m_m_s": r.gust_speed,
+        "turbulence_intensity": r.turbulence_intensity,
+        "ground": s.ground.key,
+        "air_density_kg_m3": s.air.density,
+        "seed": s.seed,
+        "objects": [
+            {
+                "name": z.obj.name,
+                "id": z.obj.object_id or None,
+                "radius_m": finite(z.radius),
+                "drift_m": finite(z.drift),
+                "scatter_m": finite(z.scatter),
+                "standard_error_m": finite(z.standard_error),
+                "worst_case_radius_m": finite(z.worst_case),
+                "max_sampled_m": finite(z.max_sampled),
+                "carried_away_fraction": z.carried_away,
+                "samples": z.samples,
+                "glides": z.obj.glides,
+            }
+            for z in r.objects
+        ],
+        "statement": zone_statement(r),
+        "not_modelled": "deflection off the structure (scaffold, facade, balconies)",
+        "caution": CAUTION_SHORT,
+    }
+    if limits is not None:
+        (
+            out["barricade_m"],
+            out["barricade_highest_wind_m_s"],
+            out["barricade_greatest_height_m"],
+        ) = limits
+    return out
+
+
+def zone_statement(result: object, system: str = "si") -> str:
+    """The zone in words: what the radius means and which object drives it."""
+    r = result
+    d = r.driver
+    s = r.settings
+    pct = f"{100 * s.confidence:g} %"
+    rest = d.radius - s.margin
+    text = (
+        f"{pct} of simulated drops of the {d.obj.name} came to rest within "
+        f"{_fmt(rest, 'length', system)} of the release point at the edge, plus a "
+        f"{_fmt(s.margin, 'length', system)} margin: keep {_fmt(d.radius, 'length', system)} "
+        "clear."
+    )
+    if len(r.objects) > 1:
+        text += (
+            " It is the object that needs the widest zone; every other listed object needs less."
+        )
+    return text
+
+
+def render_zone(
+    result: object, system: str = "si", limits: tuple[float, float, float] | None = None
+) -> str:
+    """Readable zone summary with its parts, per-object lines and the cautions."""
+    r = result
+    s = r.settings
+    d = r.driver
+    lines = ["dropcalc zone: exclusion distance from the work edge", ""]
+    for z in r.objects:
+        if z.obj.glides:
+            lines.extend(textwrap.wrap(
+                f"WARNING: {z.obj.name} is a sheet or plate: it can glide far downwind and the "
+                "point-mass zone is not conservative for it.", 90))  # fmt: skip
+        if z.carried_away > 0:
+            lines.extend(textwrap.wrap(
+                f"WARNING: {100 * z.carried_away:.2g} % of drops of {z.obj.name} were "
+                "carried beyond 5 km by the wind: it is windborne and no zone can bound it.",
+                90))  # fmt: skip
+    lines.extend(textwrap.wrap(zone_statement(r, system), 90))
+    lines.append("")
+    rows = [
+        ("Radius at confidence", _fmt(r.radius, "length", system)),
+        ("  air drift", _fmt(d.drift, "length", system)),
+        ("  scatter after landing", _fmt(d.scatter, "length", system)),
+        ("  margin", _fmt(s.margin, "length", system)),
+        ("  standard error", f"{_fmt(d.standard_error, 'length', system)} ({d.samples} samples)"),
+        ("Worst case (envelope)", f"{_fmt(r.worst_case, 'length', system)} "
+                                  f"({r.worst_case_driver.obj.name})"),
+        ("Work height", _fmt(s.height, "length", system)),
+        ("Wind", f"{_fmt(s.wind.speed_10m, 'speed', system)} {s.wind.kind} at 10 m; gust "
+                 f"{_fmt(r.gust_speed, 'speed', system)}, turbulence intensity "
+                 f"{r.turbulence_intensity:.2f}"),
+        ("Ground", s.ground.label),
+    ]  # fmt: skip
+    if limits is not None:
+        distance, wind, height = limits
+        rows.append(
+            (f"Barricade at {_fmt(distance, 'length', system)}",
+             f"holds up to a mean wind of {_fmt(wind, 'speed', system)} at this height, and up "
+             f"to a work height of {_fmt(height, 'length', system)} in this wind")
+        )  # fmt: skip
+    width = max(len(label) for label, _ in rows) + 2
+    for label, text in rows:
+        wrapped = textwrap.wrap(text, 90 - width) or [""]
+        lines.append(f"  {label:<{width}}{wrapped[0]}")
+        lines.extend(f"  {'':<{width}}{w}" for w in wrapped[1:])
+    if len(r.objects) > 1:
+        lines.append("")
+        lines.append("  Per object (radius at confidence / worst case):")
+        for z in sorted(r.objects, key=lambda z: -z.radius):
+            lines.append(
+                f"    {z.obj.name[:48]:<48} {_fmt(z.radius, 'length', system):>9} / "
+                f"{_fmt(z.worst_case, 'length', system)}"
+            )
+    lines.append("")
+    lines.extend(textwrap.wrap(
+        "Not modelled: deflection off the structure (scaffold, facade, balconies). "
+        "Caution: " + CAUTION_SHORT, 90))  # fmt: skip
+    return "\n".join(lines)

@@ -107,3 +107,12 @@ IRREGULAR_COMPACTNESS_FACTOR = 0.8
 #: flagged as able to glide and autorotate [-]. Common practice, no source; the flying behaviour
 #: of sheets is from Holmes, Letchford & Lin, J. Wind Eng. Ind. Aerodyn. 94 (2006) 21-39.
 GLIDE_THICKNESS_RATIO = 0.1
+
+# --- WGS84 ellipsoid (used by dropcalc.plan for local metres <-> lon/lat) ---------------------
+
+#: WGS84 semi-major axis a [m]. NIMA TR8350.2, 3rd ed. (2000), Table 3.1 (defining parameter).
+WGS84_SEMI_MAJOR_AXIS = 6378137.0
+
+#: WGS84 inverse flattening 1/f [-]. NIMA TR8350.2, 3rd ed. (2000), Table 3.1 (defining
+#: parameter). e^2 = f (2 - f) reproduces WGS84_FIRST_ECCENTRICITY_SQUARED above to 2e-15.
+WGS84_INVERSE_FLATTENING = 298.257223563

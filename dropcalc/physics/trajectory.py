@@ -331,12 +331,15 @@ def solve_falls(
     state[2], state[3], state[4], state[5] = h0, vx0, vy0, vz0
     result = FallSolution(time, position, velocity, landed, steps)
     # Both methods advance in the same loop, so the loop runs as long as the slowest lane of
-    # either, not the sum of the two.
-    working = [
-        _start_lanes(state[:, lanes], params[:, lanes], model, tolerance, implicit)
-        for implicit in (False, True)
-        if (lanes := np.flatnonzero(todo & (stiff == implicit))).size
-    ]
+    # either, not the sum of the two. Large sets go in blocks small enough for the working
+    # arrays to stay in the processor cache.
+    working = []
+    for implicit in (False, True):
+        lanes = np.flatnonzero(todo & (stiff == implicit))
+        working += [
+            _start_lanes(state[:, block], params[:, block], model, tolerance, implicit)
+            for block in (lanes[i : i + LANE_BLOCK] for i in range(0, lanes.size, LANE_BLOCK))
+        ]
     while working:
         for lane_set in working:
             _advance(lane_set, model, tolerance, max_time, max_distance, result)
@@ -502,6 +505,10 @@ def _implicit_step(
     _rhs(new_state, params, model, slope_new)
     return new_state, slope_new, _error_ratio(error, state, new_state, params, tolerance)
 
+
+#: Trajectories advanced together in one block: large enough to amortise numpy's per-call
+#: cost, small enough for the working arrays (~40 rows of 8 bytes each) to fit in cache.
+LANE_BLOCK = 16384
 
 #: Above this dimensionless fall height g H / v_t^2 the drag relaxation time is short compared
 #: with the fall and the explicit method would be held back by stability, not accuracy.

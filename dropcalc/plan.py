@@ -1,0 +1,637 @@
+"""Plan geometry of the ground exclusion area: footprints, swept areas, GeoJSON.
+
+A site is drawn in local metres (x east, y north) around a chosen origin. Work edges are
+polylines along which objects can be released; each has a release height. For each straight
+segment of an edge, the Monte Carlo rest positions of the dropped objects (relative to the
+release point) give a *footprint*: the convex hull of the share ``confidence`` of the samples
+nearest to the release point. Sliding the release point along the segment sweeps the footprint
+into an area; the exclusion area is the union of these swept areas, widened by a safety margin,
+with the building outline cut out.
+
+This module is geometry, not physics: it uses shapely and does no plotting (the drawing is in
+:mod:`dropcalc.plan_plot`).
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Sequence
+from dataclasses import dataclass
+from typing import Any
+
+import numpy as np
+import shapely
+from shapely import affinity
+from shapely.geometry import (
+    GeometryCollection,
+    LineString,
+    MultiLineString,
+    MultiPolygon,
+    Polygon,
+    shape,
+)
+from shapely.geometry.base import BaseGeometry
+from shapely.geometry.polygon import orient
+
+from dropcalc.errors import InputError, require_finite_positive, require_range
+from dropcalc.physics.constants import WGS84_INVERSE_FLATTENING, WGS84_SEMI_MAJOR_AXIS
+
+#: Offset from a segment's midpoint used to decide which side faces away from the outline [m].
+NORMAL_PROBE_OFFSET = 1e-3
+
+#: Half-width given to a footprint whose samples do not span an area (all at one point or on
+#: one line), so that a Polygon is still returned [m]. Common practice, no source.
+DEGENERATE_FOOTPRINT_WIDTH = 1e-3
+
+#: Segments per quarter circle of shapely's round buffers (the margin) [-]. The polygonal
+#: quarter circle lies inside the true one; its area falls short by less than 2e-4 relative.
+BUFFER_QUAD_SEGMENTS = 32
+
+#: Longest step between the boundary points at which max_distance_m is evaluated [m]. The
+#: distance to the edges is 1-Lipschitz along the boundary, so the sampled maximum is low by at
+#: most half a step.
+DISTANCE_SAMPLE_STEP = 0.02
+
+#: Decimal places of the GeoJSON degrees: 1e-8 degree is about 1.1 mm of latitude.
+GEOJSON_DECIMALS = 8
+
+_RESERVED_PROPERTIES = ("kind", "area_m2", "max_distance_m", "origin_lat", "origin_lon")
+
+
+# --- Site model --------------------------------------------------------------------------------
+
+
+def _points(field: str, points: Sequence[Sequence[float]]) -> tuple[tuple[float, float], ...]:
+    """Return ``points`` as a tuple of finite (x, y) float pairs, or raise InputError."""
+    try:
+        array = np.asarray(points, dtype=float)
+    except (TypeError, ValueError):
+        raise InputError(f"{field} must be a sequence of (x, y) pairs in metres") from None
+    if array.ndim != 2 or array.shape[1] != 2:
+        raise InputError(
+            f"{field} must be a sequence of (x, y) pairs in metres; got shape {array.shape}"
+        )
+    if not np.all(np.isfinite(array)):
+        bad = int(np.flatnonzero(~np.all(np.isfinite(array), axis=1))[0])
+        raise InputError(f"{field}[{bad}] must be finite coordinates in m; got {points[bad]}")
+    return tuple((float(x), float(y)) for x, y in array)
+
+
+@dataclass(frozen=True)
+class WorkEdge:
+    """A polyline along which objects can be released, with its release height.
+
+    Attributes
+    ----------
+    name : str
+        Label shown on the plan and in the GeoJSON.
+    points : tuple of (float, float)
+        Vertices of the polyline, at least two, x east and y north, local metres. [m]
+    height : float
+        Release height above the ground along this edge. [m]
+    """
+
+    name: str
+    points: tuple[tuple[float, float], ...]
+    height: float
+
+    def __post_init__(self) -> None:
+        field = f"work edge {self.name!r}"
+        points = _points(f"{field} points", self.points)
+        if len(points) < 2:
+            raise InputError(f"{field} points must hold at least 2 points; got {len(points)}")
+        for index, (start, end) in enumerate(zip(points[:-1], points[1:], strict=True)):
+            if start == end:
+                raise InputError(
+                    f"{field} segment {index} has zero length (point {start} repeated); "
+                    "consecutive points must differ"
+                )
+        height = require_finite_positive(f"{field} height", self.height, "m")
+        object.__setattr__(self, "points", points)
+        object.__setattr__(self, "height", height)
+
+    @property
+    def line(self) -> LineString:
+        """The edge as a shapely LineString in local metres."""
+        return LineString(self.points)
+
+
+@dataclass(frozen=True)
+class Site:
+    """A building outline (optional) and the work edges on it, in local metres.
+
+    Attributes
+    ----------
+    outline : tuple of (float, float) or None
+        Building or roof outline: a simple polygon of at least 3 distinct points (closing the
+        ring by repeating the first point is optional). ``None`` when there is no building to
+        cut out (a mast, a free-standing scaffold). [m]
+    edges : tuple of WorkEdge
+        The work edges, at least one.
+    """
+
+    outline: tuple[tuple[float, float], ...] | None
+    edges: tuple[WorkEdge, ...]
+
+    def __post_init__(self) -> None:
+        if self.outline is not None:
+            points = _points("outline", self.outline)
+            distinct = set(points)
+            if len(distinct) < 3:
+                raise InputError(
+                    f"outline must have at least 3 distinct points; got {len(distinct)}"
+                )
+            polygon = Polygon(points)
+            if not polygon.is_valid or polygon.area <= 0.0:
+                reason = shapely.is_valid_reason(polygon)
+                raise InputError(
+                    "outline must be a simple polygon (no self-intersection, non-zero area); "
+                    f"got {reason}"
+                )
+            object.__setattr__(self, "outline", points)
+        edges = tuple(self.edges)
+        if not edges:
+            raise InputError("edges must hold at least one work edge; got none")
+        for index, edge in enumerate(edges):
+            if not isinstance(edge, WorkEdge):
+                raise InputError(f"edges[{index}] must be a WorkEdge; got {type(edge).__name__}")
+        object.__setattr__(self, "edges", edges)
+
+    @property
+    def outline_polygon(self) -> Polygon | None:
+        """The outline as a shapely Polygon, or None."""
+        return None if self.outline is None else Polygon(self.outline)
+
+
+# --- Geometry ----------------------------------------------------------------------------------
+
+
+def _signed_distance(
+    outline: Polygon, mid: tuple[float, float], normal: tuple[float, float], sign: float
+) -> float:
+    """Signed distance (< 0 inside) from the outline boundary to ``mid`` moved along ±normal."""
+    probe = shapely.Point(
+        mid[0] + sign * NORMAL_PROBE_OFFSET * normal[0],
+        mid[1] + sign * NORMAL_PROBE_OFFSET * normal[1],
+    )
+    distance = outline.exterior.distance(probe)
+    return -distance if outline.contains(probe) else distance
+
+
+def segment_normals(site: Site, edge: WorkEdge) -> list[tuple[float, float]]:
+    """Outward unit normal of each segment of a work edge.
+
+    For the segment from A to B with unit direction d = (dx, dy), the two candidate normals are
+    the right-hand normal n = (dy, -dx) and -n. Each is tested at the segment midpoint moved
+    ``NORMAL_PROBE_OFFSET`` (1 mm) along it: the side whose probe point lies outside the outline
+    is kept. When both or neither probe lies inside (an edge set back from the outline, or an
+    edge standing off the building), the side with the larger signed distance to the outline
+    boundary (positive outside, negative inside) is kept, i.e. the side facing away from the
+    building. With no outline, or when the two sides tie, the right-hand normal is returned:
+    walking along the edge from its first point to its last, objects fall to the right.
+
+    Parameters
+    ----------
+    site : Site
+        The site; its outline decides which side is outward.
+    edge : WorkEdge
+        The work edge (need not be one of ``site.edges``).
+
+    Returns
+    -------
+    list of (float, float)
+        One unit vector (east, north) per segment, in segment order. [-]
+    """
+    outline = site.outline_polygon
+    normals: list[tuple[float, float]] = []
+    for (ax, ay), (bx, by) in zip(edge.points[:-1], edge.points[1:], strict=True):
+        length = math.hypot(bx - ax, by - ay)
+        right = ((by - ay) / length, -(bx - ax) / length)
+        if outline is None:
+            normals.append(right)
+            continue
+        mid = ((ax + bx) / 2.0, (ay + by) / 2.0)
+        right_side = _signed_distance(outline, mid, right, 1.0)
+        left_side = _signed_distance(outline, mid, right, -1.0)
+        flip = left_side > right_side
+        normals.append((-right[0], -right[1]) if flip else right)
+    return [(x + 0.0, y + 0.0) for x, y in normals]  # + 0.0 turns -0.0 into 0.0
+
+
+def footprint(offsets: np.ndarray, confidence: float) -> Polygon:
+    """Convex hull of the share ``confidence`` of rest positions nearest to the release point.
+
+    k = ceil(confidence · N) samples with the smallest distance |offset| are kept (ties broken
+    by sample order) and their convex hull is returned, so the polygon covers (contains or has
+    on its boundary) at least k of the N samples. ``confidence · N`` is rounded to 9 decimals
+    before the ceiling so that, e.g., 0.07 · 100 = 7.000000000000001 keeps 7 samples, not 8.
+
+    Parameters
+    ----------
+    offsets : numpy.ndarray, shape (N, 2)
+        Rest positions relative to the release point, east and north. [m]
+    confidence : float
+        Share of the samples to enclose, 0 < confidence <= 1. [-]
+
+    Returns
+    -------
+    shapely.geometry.Polygon
+        The footprint, relative to the release point. [m]
+        If the kept samples do not span an area (one point, or all on one line), their hull is
+        widened by ``DEGENERATE_FOOTPRINT_WIDTH`` (1 mm) so that a Polygon is still returned.
+
+    Raises
+    ------
+    InputError
+        If ``offsets`` is not an (N, 2) array of finite values with N >= 1, or ``confidence``
+        is not in (0, 1].
+    """
+    array = np.asarray(offsets, dtype=float)
+    if array.ndim != 2 or array.shape[1] != 2 or array.shape[0] < 1:
+        raise InputError(f"offsets must be an array of shape (N, 2) with N >= 1; got {array.shape}")
+    if not np.all(np.isfinite(array)):
+        raise InputError("offsets must be finite (no NaN or infinity) in m")
+    confidence = float(confidence)
+    if not (0.0 < confidence <= 1.0):
+        raise InputError(f"confidence must be > 0 and <= 1; got {confidence:g}")
+    count = array.shape[0]
+    keep = min(count, math.ceil(round(confidence * count, 9)))
+    order = np.argsort(np.hypot(array[:, 0], array[:, 1]), kind="stable")
+    hull = shapely.MultiPoint(array[order[:keep]]).convex_hull
+    if not isinstance(hull, Polygon) or hull.area <= 0.0:
+        hull = hull.buffer(DEGENERATE_FOOTPRINT_WIDTH, quad_segs=4)
+    return hull
+
+
+@dataclass(frozen=True)
+class ExclusionArea:
+    """The ground exclusion area of a site.
+
+    Attributes
+    ----------
+    polygon : shapely.geometry.Polygon or shapely.geometry.MultiPolygon
+        The area to keep clear, local metres, building interior removed. [m]
+    area_m2 : float
+        Its area. [m^2]
+    max_distance_m : float
+        Largest distance from the area's boundary to the nearest work edge: over all boundary
+        points, the distance to the nearest edge polyline, maximised (the directed Hausdorff
+        distance from the boundary to the edges). It is how far out the barrier line reaches.
+        Evaluated on boundary points at most ``DISTANCE_SAMPLE_STEP`` apart: low by at most
+        1 cm. [m]
+    """
+
+    polygon: Polygon | MultiPolygon
+    area_m2: float
+    max_distance_m: float
+
+
+def _polygonal(geometry: BaseGeometry) -> Polygon | MultiPolygon:
+    """Keep the polygonal parts of a geometry (overlay results can carry stray lines)."""
+    if isinstance(geometry, Polygon | MultiPolygon):
+        return geometry
+    parts = [
+        part
+        for part in getattr(geometry, "geoms", [])
+        if isinstance(part, Polygon | MultiPolygon) and not part.is_empty
+    ]
+    merged = shapely.unary_union(parts) if parts else Polygon()
+    return merged if isinstance(merged, Polygon | MultiPolygon) else Polygon()
+
+
+def _max_distance_to_edges(polygon: Polygon | MultiPolygon, site: Site) -> float:
+    """Directed Hausdorff distance from the polygon's boundary to the work edges [m]."""
+    edges = MultiLineString([edge.points for edge in site.edges])
+    boundary = polygon.boundary
+    step = max(DISTANCE_SAMPLE_STEP, boundary.length / 200_000.0)
+    dense = shapely.segmentize(boundary, step)
+    points = shapely.points(shapely.get_coordinates(dense))
+    return float(np.max(shapely.distance(points, edges)))
+
+
+def exclusion_area(
+    site: Site,
+    footprints: Sequence[tuple[int, int, Polygon]],
+    margin: float,
+) -> ExclusionArea:
+    """Union of the footprints swept along their segments, widened by a margin.
+
+    For a segment from A to B and a footprint F (relative to the release point), the swept area
+    is the Minkowski sum F ⊕ [A, B]; for a convex F it equals
+
+        conv((F + A) ∪ (F + B)),
+
+    which is what is computed (for a non-convex F it is the sum of F's convex hull with the
+    segment, a superset). The union over all given footprints is buffered by ``margin`` (round
+    joins, ``BUFFER_QUAD_SEGMENTS`` segments per quarter circle) and the interior of the
+    building outline is removed.
+
+    Parameters
+    ----------
+    site : Site
+        Outline and work edges.
+    footprints : sequence of (int, int, shapely.geometry.Polygon)
+        (edge index into ``site.edges``, segment index along that edge, footprint relative to a
+        release point on that segment). A segment may carry several footprints (several
+        objects); every footprint given is used. [m]
+    margin : float
+        Safety margin added all round, >= 0. [m]
+
+    Returns
+    -------
+    ExclusionArea
+        The area, its size and its largest distance from the work edges.
+
+    Raises
+    ------
+    InputError
+        If an index is out of range, a footprint is not a non-empty valid Polygon, the margin is
+        negative or not finite, no footprint is given, or nothing is left outside the outline.
+    """
+    margin = require_finite_positive("margin", margin, "m", allow_zero=True)
+    if len(footprints) == 0:
+        raise InputError("footprints must hold at least one (edge, segment, polygon); got none")
+    swept: list[BaseGeometry] = []
+    for number, item in enumerate(footprints):
+        try:
+            edge_index, segment_index, polygon = item
+        except (TypeError, ValueError):
+            raise InputError(
+                f"footprints[{number}] must be (edge index, segment index, polygon)"
+            ) from None
+        if not (isinstance(edge_index, int | np.integer) and 0 <= edge_index < len(site.edges)):
+            raise InputError(
+                f"footprints[{number}] edge index must be 0 to {len(site.edges) - 1}; "
+                f"got {edge_index}"
+            )
+        edge = site.edges[int(edge_index)]
+        segments = len(edge.points) - 1
+        if not (isinstance(segment_index, int | np.integer) and 0 <= segment_index < segments):
+            raise InputError(
+                f"footprints[{number}] segment index must be 0 to {segments - 1} on work edge "
+                f"{edge.name!r}; got {segment_index}"
+            )
+        if not isinstance(polygon, Polygon) or polygon.is_empty or not polygon.is_valid:
+            raise InputError(f"footprints[{number}] footprint must be a non-empty valid Polygon")
+        start = edge.points[int(segment_index)]
+        end = edge.points[int(segment_index) + 1]
+        at_start = affinity.translate(polygon, start[0], start[1])
+        at_end = affinity.translate(polygon, end[0], end[1])
+        swept.append(shapely.union(at_start, at_end).convex_hull)
+    union = shapely.unary_union(swept)
+    if margin > 0.0:
+        union = union.buffer(margin, quad_segs=BUFFER_QUAD_SEGMENTS)
+    outline = site.outline_polygon
+    if outline is not None:
+        union = union.difference(outline)
+    area = _polygonal(union)
+    if area.is_empty or area.area <= 0.0:
+        raise InputError(
+            "the exclusion area is empty: every footprint lies inside the building outline"
+        )
+    return ExclusionArea(
+        polygon=area,
+        area_m2=float(area.area),
+        max_distance_m=_max_distance_to_edges(area, site),
+    )
+
+
+# --- GeoJSON -----------------------------------------------------------------------------------
+
+
+def _radii_of_curvature(origin_lat: float) -> tuple[float, float]:
+    """Meridian and prime-vertical radii of curvature M, N of WGS84 at a latitude [m].
+
+    M = a (1 - e²) / (1 - e² sin²φ)^1.5, N = a / sqrt(1 - e² sin²φ), e² = f (2 - f).
+    NIMA TR8350.2, 3rd ed. (2000), ch. 3 and 4.
+    """
+    flattening = 1.0 / WGS84_INVERSE_FLATTENING
+    eccentricity_squared = flattening * (2.0 - flattening)
+    sin_squared = math.sin(math.radians(origin_lat)) ** 2
+    denominator = 1.0 - eccentricity_squared * sin_squared
+    meridian = WGS84_SEMI_MAJOR_AXIS * (1.0 - eccentricity_squared) / denominator**1.5
+    prime_vertical = WGS84_SEMI_MAJOR_AXIS / math.sqrt(denominator)
+    return meridian, prime_vertical
+
+
+def _check_origin(origin_lat: float, origin_lon: float) -> tuple[float, float]:
+    latitude = require_range("origin_lat", origin_lat, -85.0, 85.0, "degrees")
+    longitude = require_range("origin_lon", origin_lon, -180.0, 180.0, "degrees")
+    return latitude, longitude
+
+
+def _local_to_lonlat(xy: np.ndarray, origin_lat: float, origin_lon: float) -> np.ndarray:
+    """Local tangent-plane metres (east, north) to WGS84 (lon, lat) degrees, rounded."""
+    meridian, prime_vertical = _radii_of_curvature(origin_lat)
+    xy = np.asarray(xy, dtype=float)
+    latitude = origin_lat + np.degrees(xy[:, 1] / meridian)
+    longitude = origin_lon + np.degrees(
+        xy[:, 0] / (prime_vertical * math.cos(math.radians(origin_lat)))
+    )
+    if np.any(np.abs(longitude) > 180.0):
+        raise InputError(
+            "the plan crosses the 180th meridian, which this GeoJSON export does not split; "
+            f"got origin_lon {origin_lon:g} degrees"
+        )
+    return np.round(np.column_stack([longitude, latitude]), GEOJSON_DECIMALS)
+
+
+def _lonlat_to_local(lonlat: np.ndarray, origin_lat: float, origin_lon: float) -> np.ndarray:
+    """WGS84 (lon, lat) degrees to local tangent-plane metres (east, north)."""
+    meridian, prime_vertical = _radii_of_curvature(origin_lat)
+    lonlat = np.asarray(lonlat, dtype=float)
+    east = (
+        np.radians(lonlat[:, 0] - origin_lon) * prime_vertical * math.cos(math.radians(origin_lat))
+    )
+    north = np.radians(lonlat[:, 1] - origin_lat) * meridian
+    return np.column_stack([east, north])
+
+
+def _ring(coordinates: Sequence[Sequence[float]], origin: tuple[float, float]) -> list:
+    """A closed GeoJSON ring (first == last, no repeated neighbours after rounding)."""
+    converted = _local_to_lonlat(np.asarray(coordinates, dtype=float), *origin).tolist()
+    ring = [converted[0]]
+    for point in converted[1:]:
+        if point != ring[-1]:
+            ring.append(point)
+    if ring[0] != ring[-1]:
+        ring.append(ring[0])
+    return ring
+
+
+def _polygon_rings(polygon: Polygon, origin: tuple[float, float]) -> list:
+    oriented = orient(polygon, sign=1.0)  # exterior counter-clockwise, holes clockwise
+    rings = [_ring(oriented.exterior.coords, origin)]
+    rings.extend(_ring(hole.coords, origin) for hole in oriented.interiors)
+    return rings
+
+
+def _geometry(geometry: BaseGeometry, origin: tuple[float, float]) -> dict[str, Any]:
+    if isinstance(geometry, Polygon):
+        return {"type": "Polygon", "coordinates": _polygon_rings(geometry, origin)}
+    if isinstance(geometry, MultiPolygon):
+        return {
+            "type": "MultiPolygon",
+            "coordinates": [_polygon_rings(part, origin) for part in geometry.geoms],
+        }
+    if isinstance(geometry, LineString):
+        return {
+            "type": "LineString",
+            "coordinates": _local_to_lonlat(np.asarray(geometry.coords), *origin).tolist(),
+        }
+    raise TypeError(f"no GeoJSON export for {geometry.geom_type}")  # pragma: no cover
+
+
+def to_geojson(
+    area: ExclusionArea,
+    site: Site,
+    origin_lat: float,
+    origin_lon: float,
+    properties: dict[str, Any],
+) -> dict[str, Any]:
+    """The exclusion area, outline and work edges as an RFC 7946 FeatureCollection.
+
+    Local metres are turned into WGS84 longitude and latitude with the local tangent-plane
+    approximation at the origin latitude φ0:
+
+        Δlat = y / M,   Δlon = x / (N cos φ0)   [rad]
+        M = a (1 - e²) / (1 - e² sin²φ0)^1.5,   N = a / sqrt(1 - e² sin²φ0)
+
+    with a = 6378137 m, 1/f = 298.257223563, e² = f (2 - f). Coordinates are rounded to 1e-8
+    degree (about 1 mm). The horizontal error of the flat-plane approximation grows as
+    (distance / Earth radius)²: well under 1 mm within 1 km of the origin.
+
+    Features, each with a ``kind`` property:
+
+    - ``"exclusion_area"``: Polygon or MultiPolygon (exterior rings counter-clockwise, holes
+      clockwise, RFC 7946 §3.1.6), with ``area_m2``, ``max_distance_m``, ``origin_lat``,
+      ``origin_lon`` and the caller's ``properties``;
+    - ``"building_outline"``: Polygon, when the site has an outline;
+    - ``"work_edge"``: LineString per work edge, with ``name`` and ``height_m``.
+
+    Parameters
+    ----------
+    area : ExclusionArea
+        The exclusion area in local metres.
+    site : Site
+        Outline and work edges in local metres.
+    origin_lat : float
+        Latitude of the local origin, -85 to 85. [degrees]
+    origin_lon : float
+        Longitude of the local origin, -180 to 180. [degrees]
+    properties : dict
+        JSON-serialisable values added to the exclusion-area feature's properties (e.g. the
+        confidence, the wind); must not use the keys this function sets.
+
+    Returns
+    -------
+    dict
+        The FeatureCollection, ready for ``json.dumps``.
+
+    Raises
+    ------
+    InputError
+        If the origin is out of range, a property key is reserved, or the plan crosses the
+        180th meridian.
+
+    References
+    ----------
+    National Imagery and Mapping Agency, "Department of Defense World Geodetic System 1984:
+    Its Definition and Relationships with Local Geodetic Systems", NIMA TR8350.2, 3rd ed.,
+    2000, Table 3.1 (a, 1/f) and ch. 4 (radii of curvature).
+
+    H. Butler et al., "The GeoJSON Format", RFC 7946, IETF, 2016.
+    """
+    origin = _check_origin(origin_lat, origin_lon)
+    clashes = sorted(set(properties) & set(_RESERVED_PROPERTIES))
+    if clashes:
+        raise InputError(
+            f"properties must not use the reserved keys {', '.join(_RESERVED_PROPERTIES)}; "
+            f"got {', '.join(clashes)}"
+        )
+    features: list[dict[str, Any]] = [
+        {
+            "type": "Feature",
+            "geometry": _geometry(area.polygon, origin),
+            "properties": {
+                "kind": "exclusion_area",
+                "area_m2": round(area.area_m2, 2),
+                "max_distance_m": round(area.max_distance_m, 3),
+                "origin_lat": origin[0],
+                "origin_lon": origin[1],
+                **properties,
+            },
+        }
+    ]
+    outline = site.outline_polygon
+    if outline is not None:
+        features.append(
+            {
+                "type": "Feature",
+                "geometry": _geometry(outline, origin),
+                "properties": {"kind": "building_outline"},
+            }
+        )
+    features.extend(
+        {
+            "type": "Feature",
+            "geometry": _geometry(edge.line, origin),
+            "properties": {"kind": "work_edge", "name": edge.name, "height_m": edge.height},
+        }
+        for edge in site.edges
+    )
+    return {"type": "FeatureCollection", "features": features}
+
+
+def from_geojson_local(
+    geojson: dict[str, Any],
+    origin_lat: float,
+    origin_lon: float,
+    kind: str | None = "exclusion_area",
+) -> BaseGeometry:
+    """Read GeoJSON lon/lat back into local metres (the inverse of :func:`to_geojson`).
+
+    Parameters
+    ----------
+    geojson : dict
+        A FeatureCollection, a Feature or a bare geometry.
+    origin_lat : float
+        Latitude of the local origin, -85 to 85. [degrees]
+    origin_lon : float
+        Longitude of the local origin, -180 to 180. [degrees]
+    kind : str or None
+        For a FeatureCollection: the ``kind`` of the features to read (default the exclusion
+        area); ``None`` reads all of them.
+
+    Returns
+    -------
+    shapely geometry
+        The one matching geometry, or a GeometryCollection when several match, in local
+        metres (east, north). [m]
+
+    Raises
+    ------
+    InputError
+        If the origin is out of range, the object is not GeoJSON, or no feature matches.
+    """
+    origin = _check_origin(origin_lat, origin_lon)
+    kind_of = geojson.get("type") if isinstance(geojson, dict) else None
+    if kind_of == "FeatureCollection":
+        geometries = [
+            feature["geometry"]
+            for feature in geojson.get("features", [])
+            if kind is None or feature.get("properties", {}).get("kind") == kind
+        ]
+    elif kind_of == "Feature":
+        geometries = [geojson["geometry"]]
+    elif kind_of in ("Point", "LineString", "Polygon", "MultiPolygon", "MultiLineString"):
+        geometries = [geojson]
+    else:
+        raise InputError(f"geojson must be a FeatureCollection, Feature or geometry; got {kind_of}")
+    if not geometries:
+        raise InputError(f"geojson has no feature of kind {kind!r}")
+    local = [
+        shapely.transform(shape(geometry), lambda lonlat: _lonlat_to_local(lonlat, *origin))
+        for geometry in geometries
+    ]
+    return local[0] if len(local) == 1 else GeometryCollection(local)

@@ -1,0 +1,610 @@
+"""Exclusion zones: how far from a work edge dropped objects come to rest.
+
+Two answers, side by side:
+
+- ``radius_m``: the distance from the release point within which a stated share (the confidence,
+  default 0.99) of simulated drops came to rest, plus a margin. The inputs that are uncertain on
+  the day (wind speed and direction, how the object leaves the edge, its orientation while it
+  tumbles, its drag coefficient, the air density, the ground's restitution and friction) are
+  sampled from documented distributions (:class:`Uncertainty`), the trajectories solved in one
+  array call, the bounce and slide added, and the quantile taken. Sampling goes on until the
+  quantile's standard error is below a tolerance.
+- ``worst_case_radius_m``: the deterministic envelope: every sampled input at the end of its
+  range that carries the object furthest (the gust speed blowing straight out from the edge, the
+  highest release speed, the drag area over its whole range, upper restitution, lower friction),
+  plus the same margin. No Monte Carlo sample lies beyond it.
+
+The radius is split as ``radius = drift + scatter + margin``: ``drift_m`` is the confidence
+quantile of the air drift alone (release point to first ground contact), ``scatter_m`` the further
+distance to the quantile of the rest positions. Deflection off the structure (scaffold, facade,
+balconies) is not modelled.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Callable, Sequence
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from dropcalc.errors import InputError
+from dropcalc.fall import wind_field
+from dropcalc.physics.atmosphere import AirState, air_state
+from dropcalc.physics.release import Release, initial_velocity
+from dropcalc.physics.scatter import (
+    Surface,
+    sample_rolling_resistance,
+    sample_surface,
+    scatter_distance,
+    surface,
+)
+from dropcalc.physics.trajectory import solve_falls
+from dropcalc.physics.wind import WindSpec, turbulence_intensity, wind_spec
+
+#: Integrator tolerance for zone samples: 1e-6 keeps positions to ~1e-5 relative, far inside the
+#: Monte Carlo error, at a third of the steps of the default 1e-8.
+ZONE_TOLERANCE = 1e-6
+#: Turbulence intensity used when the terrain gives none [-] (EN 1991-1-4 category II at 10 m
+#: gives 1/ln(10/0.05) = 0.19; rounded up, common practice, no source).
+DEFAULT_TURBULENCE_INTENSITY = 0.2
+#: Margin added to the zone radius [m] (common practice, no source; the user sets it).
+DEFAULT_MARGIN = 2.0
+#: Samples per object in the first round, and the most per object.
+INITIAL_SAMPLES = 20_000
+MAX_SAMPLES = 1_280_000
+#: Standard error of the radius aimed at, relative to the radius.
+DEFAULT_RELATIVE_ERROR = 0.01
+#: Horizontal distance after which a sample counts as carried away [m].
+CARRIED_AWAY = 5000.0
+
+
+@dataclass(frozen=True)
+class ZoneObject:
+    """An object for the zone, SI units.
+
+    Attributes
+    ----------
+    name : str
+        Name shown in the output.
+    mass : float
+        [kg]
+    drag_area_min, drag_area_max : float
+        Drag area bounds of the tumbling object. [m^2]
+    quantity : int
+        How many are in use (weights nothing: each object gets its own quantile).
+    object_id : str
+        Library id, or "" for a custom object.
+    fragile : bool
+        May break on impact: the fragment allowance is added.
+    rolls : bool
+        Round item that rolls rather than slides after landing.
+    glides : bool
+        Sheet or plate that can glide in wind (the point-mass result is not conservative).
+    """
+
+    name: str
+    mass: float
+    drag_area_min: float
+    drag_area_max: float
+    quantity: int = 1
+    object_id: str = ""
+    fragile: bool = False
+    rolls: bool = False
+    glides: bool = False
+
+
+@dataclass(frozen=True)
+class Uncertainty:
+    """Distributions of the inputs that vary from drop to drop (documented defaults).
+
+    Attributes
+    ----------
+    turbulence_intensity : float or None
+        Standard deviation of the wind speed over its mean; None takes I_v at 10 m from the EN
+        terrain category (EN 1991-1-4 eq. 4.7), else :data:`DEFAULT_TURBULENCE_INTENSITY`. The
+        sampled speed is mean (1 + I_v Z), Z standard normal truncated so that the speed stays
+        between 0 and the gust speed.
+    direction_spread : float
+        Standard deviation of the wind direction about its mean, normal truncated at 3 sigma
+        (common practice, no source). [deg]
+    release_direction_spread : float
+        Half-width of the uniform spread of a push or throw direction about the edge normal
+        (common practice, no source). [deg]
+    release_speed_low : float
+        Push and throw speeds are uniform between this fraction of the given speed and the given
+        speed (a given speed is the most a person would impart). [-]
+    release_angle_spread : float
+        Half-width of the uniform spread of a throw's elevation angle. [deg]
+    friction_spread : float
+        Relative half-width of the uniform spread of the roof friction (roof-slide). [-]
+    drag_coefficient_spread : float
+        Relative half-width of the uniform spread of C_d on top of the orientation spread
+        (REFERENCES.md §2: Cd tables are good to about +-10 % above Re 1e4, from memory). [-]
+    density_spread : float
+        Relative half-width of the uniform spread of air density during the work (a +-15 K
+        day is +-5 %, from the ideal gas law). [-]
+    """
+
+    turbulence_intensity: float | None = None
+    direction_spread: float = 15.0
+    release_direction_spread: float = 30.0
+    release_speed_low: float = 0.0
+    release_angle_spread: float = 15.0
+    friction_spread: float = 0.2
+    drag_coefficient_spread: float = 0.10
+    density_spread: float = 0.05
+
+    def __post_init__(self) -> None:
+        checks = (
+            ("direction_spread", self.direction_spread, 0.0, 90.0),
+            ("release_direction_spread", self.release_direction_spread, 0.0, 90.0),
+            ("release_speed_low", self.release_speed_low, 0.0, 1.0),
+            ("release_angle_spread", self.release_angle_spread, 0.0, 45.0),
+            ("friction_spread", self.friction_spread, 0.0, 0.9),
+            ("drag_coefficient_spread", self.drag_coefficient_spread, 0.0, 0.5),
+            ("density_spread", self.density_spread, 0.0, 0.3),
+        )
+        for name, value, low, high in checks:
+            if not (math.isfinite(value) and low <= value <= high):
+                raise InputError(f"{name} must be between {low:g} and {high:g}; got {value:g}")
+        if self.turbulence_intensity is not None and not (0.0 <= self.turbulence_intensity <= 0.6):
+            raise InputError(
+                f"turbulence_intensity must be between 0 and 0.6; got {self.turbulence_intensity}"
+            )
+
+
+@dataclass(frozen=True)
+class ZoneSettings:
+    """Everything but the objects: release, wind, air, ground, confidence and sampling."""
+
+    height: float
+    release: Release = field(default_factory=Release)
+    wind: WindSpec = field(default_factory=lambda: wind_spec(0.0))
+    air: AirState = field(default_factory=air_state)
+    gravity: float = 9.80665
+    edge_azimuth: float = 90.0
+    ground: Surface = field(default_factory=lambda: surface("concrete"))
+    confidence: float = 0.99
+    margin: float = DEFAULT_MARGIN
+    relative_error: float = DEFAULT_RELATIVE_ERROR
+    seed: int = 1
+    uncertainty: Uncertainty = field(default_factory=Uncertainty)
+    max_samples: int = MAX_SAMPLES
+
+    def __post_init__(self) -> None:
+        if not (math.isfinite(self.height) and 0 < self.height <= 5000):
+            raise InputError(
+                f"height must be a finite length from 0 to 5000 m; got {self.height:g} m"
+            )
+        if not (0.5 <= self.confidence <= 0.9999):
+            raise InputError(f"confidence must be between 0.5 and 0.9999; got {self.confidence:g}")
+        if not (math.isfinite(self.margin) and 0 <= self.margin <= 100):
+            raise InputError(f"margin must be between 0 and 100 m; got {self.margin:g} m")
+        if not (0.001 <= self.relative_error <= 0.2):
+            raise InputError(
+                f"relative_error must be between 0.001 and 0.2; got {self.relative_error:g}"
+            )
+
+
+@dataclass(frozen=True)
+class ObjectZone:
+    """Zone figures of one object."""
+
+    obj: ZoneObject
+    radius: float  # quantile of rest distance + margin [m]
+    drift: float  # quantile of air drift [m]
+    scatter: float  # radius - drift - margin [m]
+    standard_error: float  # of the rest-distance quantile [m]
+    samples: int
+    max_sampled: float  # largest sampled rest distance [m]
+    worst_case: float  # envelope rest distance + margin [m]
+    carried_away: float  # share of samples still airborne at CARRIED_AWAY [-]
+    offsets: np.ndarray  # (2, n) rest positions relative to the release point [m]
+
+
+@dataclass(frozen=True)
+class ZoneResult:
+    """The zone for a set of objects: the largest of the per-object figures."""
+
+    settings: ZoneSettings
+    objects: tuple[ObjectZone, ...]
+    driver: ObjectZone
+    worst_case_driver: ObjectZone
+    gust_speed: float
+    turbulence_intensity: float
+
+    @property
+    def radius(self) -> float:
+        """Exclusion radius [m] at the confidence, margin included."""
+        return self.driver.radius
+
+    @property
+    def worst_case(self) -> float:
+        """Deterministic envelope radius [m], margin included."""
+        return self.worst_case_driver.worst_case
+
+
+# --------------------------------------------------------------------------------------------
+# Sampling
+
+
+def _turbulence(settings: ZoneSettings) -> float:
+    if settings.uncertainty.turbulence_intensity is not None:
+        return settings.uncertainty.turbulence_intensity
+    wind = settings.wind
+    if wind.profile == "log" and wind.roughness_length:
+        return float(turbulence_intensity(10.0, wind.roughness_length, wind.minimum_height))
+    return DEFAULT_TURBULENCE_INTENSITY
+
+
+def _mean_and_gust(settings: ZoneSettings) -> tuple[float, float]:
+    """Mean speed at 10 m and the gust that bounds the samples [m/s]."""
+    wind = settings.wind
+    if wind.speed_10m == 0:
+        return 0.0, 0.0
+    factor = wind.gust_factor()
+    if wind.kind == "gust":
+        return wind.speed_10m / factor, wind.speed_10m
+    return wind.speed_10m, wind.speed_10m * factor
+
+
+def _truncated_normal(rng: np.random.Generator, n: int, low: float, high: float) -> np.ndarray:
+    """Standard normal samples restricted to [low, high] by inverse-CDF sampling."""
+    from math import erf, sqrt
+
+    from scipy.special import ndtri
+
+    cdf_low = 0.5 * (1 + erf(low / sqrt(2))) if math.isfinite(low) else 0.0
+    cdf_high = 0.5 * (1 + erf(high / sqrt(2))) if math.isfinite(high) else 1.0
+    u = rng.uniform(cdf_low, cdf_high, n)
+    return ndtri(np.clip(u, 1e-300, 1 - 1e-16))
+
+
+def _release_velocities(settings: ZoneSettings, n: int, rng: np.random.Generator) -> np.ndarray:
+    """Sampled release velocities (3, n) for the release mode."""
+    release, unc = settings.release, settings.uncertainty
+    azimuth = np.full(n, settings.edge_azimuth)
+    sampled = release
+    from dataclasses import replace
+
+    if release.mode in ("push", "throw"):
+        top = float(release.speed)
+        speed = rng.uniform(unc.release_speed_low * top, top, n)
+        azimuth = azimuth + rng.uniform(
+            -unc.release_direction_spread, unc.release_direction_spread, n
+        )
+        sampled = replace(release, speed=speed)
+        if release.mode == "throw":
+            angle = float(release.angle) + rng.uniform(
+                -unc.release_angle_spread, unc.release_angle_spread, n
+            )
+            sampled = replace(sampled, angle=np.clip(angle, -90.0, 90.0))
+    elif release.mode == "roof-slide" and float(release.friction) > 0:
+        mu = float(release.friction) * rng.uniform(
+            1 - unc.friction_spread, 1 + unc.friction_spread, n
+        )
+        # Keep every sample able to slide (the given friction was checked to allow it).
+        limit = math.tan(math.radians(float(release.roof_pitch))) * 0.999
+        sampled = replace(release, friction=np.minimum(mu, limit))
+    velocity = np.asarray(initial_velocity(sampled, azimuth, settings.gravity), dtype=float)
+    return velocity.reshape(3, -1) * np.ones((1, n))
+
+
+def _rest_positions(
+    obj_mass: np.ndarray,
+    drag_area: np.ndarray,
+    density: np.ndarray,
+    wind_speed: np.ndarray,
+    wind_toward: np.ndarray,
+    velocity0: np.ndarray,
+    e_n: np.ndarray,
+    e_t: np.ndarray,
+    friction: np.ndarray,
+    rolling_resistance: np.ndarray | None,
+    obj: ZoneObject,
+    settings: ZoneSettings,
+) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Solve falls and add the scatter: rest offsets (2, n), air drift (n), landed (n)."""
+    from dataclasses import replace
+
+    k = density * drag_area / (2.0 * obj_mass)
+    toward = np.radians(wind_toward)
+    base = wind_field(settings.wind, wind_speed)
+    field_ = replace(base, toward_east=np.sin(toward), toward_north=np.cos(toward))
+    solution = solve_falls(
+        settings.height,
+        velocity0,
+        k,
+        gravity=settings.gravity,
+        wind=field_,
+        tolerance=ZONE_TOLERANCE,
+        max_distance=CARRIED_AWAY,
+    )
+    landing = solution.position[:2]
+    drift = np.hypot(landing[0], landing[1])
+    v = solution.velocity
+    horizontal = np.where(solution.landed, np.hypot(v[0], v[1]), 0.0)
+    vertical = np.where(solution.landed, np.maximum(-v[2], 0.0), 0.0)
+    extra = scatter_distance(
+        vertical, horizontal, e_n, e_t, friction, gravity=settings.gravity, rolls=obj.rolls,
+        rolling_resistance=rolling_resistance if obj.rolls else None, fragile=obj.fragile,
+    ).total  # fmt: skip
+    # Scatter goes along the horizontal impact direction (outward when the impact is vertical).
+    out = math.radians(settings.edge_azimuth)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        dx = np.where(horizontal > 1e-9, v[0] / horizontal, math.sin(out))
+        dy = np.where(horizontal > 1e-9, v[1] / horizontal, math.cos(out))
+    rest = landing + extra * np.vstack([dx, dy])
+    rest[:, ~solution.landed] = np.nan
+    return rest, drift, solution.landed
+
+
+def sample_object(
+    obj: ZoneObject, settings: ZoneSettings, n: int, rng: np.random.Generator
+) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Draw ``n`` drops of one object: rest offsets (2, n), air drift (n), landed (n)."""
+    unc = settings.uncertainty
+    mean, gust = _mean_and_gust(settings)
+    i_v = _turbulence(settings)
+    if mean > 0 and i_v > 0:
+        z_high = (gust / mean - 1.0) / i_v
+        z = _truncated_normal(rng, n, -1.0 / i_v, z_high)
+        wind_speed = np.clip(mean * (1.0 + i_v * z), 0.0, gust)
+    else:
+        wind_speed = np.full(n, mean)
+    base_toward = (settings.wind.from_direction_deg + 180.0) % 360.0
+    spread = unc.direction_spread
+    toward = (
+        base_toward + spread * _truncated_normal(rng, n, -3.0, 3.0)
+        if spread
+        else np.full(n, base_toward)
+    )
+    drag_area = rng.uniform(obj.drag_area_min, obj.drag_area_max, n) * rng.uniform(
+        1 - unc.drag_coefficient_spread, 1 + unc.drag_coefficient_spread, n
+    )
+    density = settings.air.density * rng.uniform(1 - unc.density_spread, 1 + unc.density_spread, n)
+    e_n, e_t, friction = sample_surface(settings.ground, n, rng)
+    rolling = sample_rolling_resistance(settings.ground, n, rng) if obj.rolls else None
+    return _rest_positions(
+        np.full(n, obj.mass), drag_area, density, wind_speed, toward,
+        _release_velocities(settings, n, rng), e_n, e_t, friction, rolling, obj, settings,
+    )  # fmt: skip
+
+
+def quantile_with_error(distances: np.ndarray, p: float) -> tuple[float, float]:
+    """The p-quantile of the distances and its standard error [m].
+
+    The standard error comes from the distribution-free confidence interval of a quantile: the
+    order statistics at ranks n p -+ 1.96 sqrt(n p (1 - p)) bound a 95 % interval (Hahn and
+    Meeker, *Statistical Intervals* (1991), sec. 5.2), so SE ~ (upper - lower) / (2 x 1.96).
+    Carried-away samples (NaN) count as infinitely far.
+    """
+    d = np.where(np.isnan(distances), np.inf, distances)
+    n = d.size
+    ranks = n * p + np.array([-1.0, 0.0, 1.0]) * 1.96 * math.sqrt(n * p * (1 - p))
+    idx = np.clip(np.round(ranks).astype(int) - 1, 0, n - 1)
+    values = np.partition(d, np.unique(idx))[idx]
+    return float(values[1]), float((values[2] - values[0]) / (2 * 1.96))
+
+
+# --------------------------------------------------------------------------------------------
+# Envelope
+
+
+def envelope_distance(obj: ZoneObject, settings: ZoneSettings) -> float:
+    """Rest distance [m] of the deterministic envelope (margin not included).
+
+    Every sampled input is put at the end of its range that carries the object furthest: the
+    gust speed blowing straight out from the edge, the highest release speed pointing straight
+    out, the drag area over its whole range (nine log-spaced values, each at the low and high
+    end of the Cd spread: the farthest landing need not be at either bound when a push and the
+    wind compete), the air density at both ends of its range, upper restitution and lower
+    friction. The largest rest distance over these corners is returned.
+    """
+    unc = settings.uncertainty
+    _, gust = _mean_and_gust(settings)
+    areas = np.geomspace(obj.drag_area_min, obj.drag_area_max, 9)
+    areas = np.concatenate(
+        [areas * (1 - unc.drag_coefficient_spread), areas * (1 + unc.drag_coefficient_spread)]
+    )
+    densities = settings.air.density * np.array([1 - unc.density_spread, 1 + unc.density_spread])
+    release = settings.release
+    from dataclasses import replace
+
+    angles = [None]
+    if release.mode == "throw":
+        angles = list(
+            np.linspace(
+                float(release.angle) - unc.release_angle_spread,
+                float(release.angle) + unc.release_angle_spread,
+                7,
+            ).clip(-90, 90)
+        )
+    if release.mode == "roof-slide" and float(release.friction) > 0:
+        release = replace(release, friction=float(release.friction) * (1 - unc.friction_spread))
+    area_grid, density_grid, angle_grid = np.meshgrid(
+        areas, densities, np.arange(len(angles)), indexing="ij"
+    )
+    area_grid, density_grid = area_grid.ravel(), density_grid.ravel()
+    velocities = []
+    for i in angle_grid.ravel():
+        r = release if angles[i] is None else replace(release, angle=float(angles[i]))
+        velocities.append(
+            np.asarray(initial_velocity(r, settings.edge_azimuth, settings.gravity)).reshape(3)
+        )
+    v0 = np.array(velocities).T
+    m = area_grid.size
+    e_n_hi = settings.ground.normal_restitution[1]
+    e_t_hi = settings.ground.tangential_restitution[1]
+    rest, _, landed = _rest_positions(
+        np.full(m, obj.mass), area_grid, density_grid, np.full(m, gust),
+        np.full(m, settings.edge_azimuth), v0, np.full(m, e_n_hi), np.full(m, e_t_hi),
+        np.full(m, settings.ground.friction[0]),
+        np.full(m, settings.ground.rolling_resistance[0]), obj, settings,
+    )  # fmt: skip
+    if not np.all(landed):
+        return math.inf
+    return float(np.max(np.hypot(rest[0], rest[1])))
+
+
+# --------------------------------------------------------------------------------------------
+# The zone
+
+
+def compute_zone(
+    objects: Sequence[ZoneObject],
+    settings: ZoneSettings,
+    progress: Callable[[int, int], None] | None = None,
+) -> ZoneResult:
+    """Exclusion zone for the objects: per-object quantiles, envelope, and the driving object.
+
+    Each object is sampled on its own (``INITIAL_SAMPLES`` at first) and its quantile of rest
+    distance taken; sampling doubles for the objects that could still drive the zone until the
+    driving quantile's standard error is below ``relative_error`` of it (or ``max_samples``).
+    The zone radius is the largest per-object radius: every object listed is covered at the
+    confidence, not just the mixture.
+
+    Parameters
+    ----------
+    objects : sequence of ZoneObject
+        The objects in use at the edge.
+    settings : ZoneSettings
+        Release, wind, air, ground, confidence, margin and sampling.
+    progress : callable, optional
+        Called with (samples done, samples planned) after each round.
+
+    Returns
+    -------
+    ZoneResult
+    """
+    if not objects:
+        raise InputError("the zone needs at least one object")
+    rng = np.random.default_rng(settings.seed)
+    p = settings.confidence
+    offsets: list[list[np.ndarray]] = [[] for _ in objects]
+    drifts: list[list[np.ndarray]] = [[] for _ in objects]
+    counts = np.zeros(len(objects), dtype=int)
+    active = list(range(len(objects)))
+    target = INITIAL_SAMPLES
+    while active:
+        for i in active:
+            need = target - counts[i]
+            rest, drift, _ = sample_object(objects[i], settings, need, rng)
+            offsets[i].append(rest)
+            drifts[i].append(drift)
+            counts[i] = target
+        if progress is not None:
+            progress(int(counts.sum()), int(counts.sum()))
+        stats = []
+        for i in range(len(objects)):
+            d = np.hypot(*np.concatenate(offsets[i], axis=1))
+            stats.append(quantile_with_error(d, p))
+        q = np.array([s[0] for s in stats])
+        se = np.array([s[1] for s in stats])
+        lead = int(np.argmax(q))
+        contenders = [i for i in range(len(objects)) if q[i] + 2 * se[i] >= q[lead] - 2 * se[lead]]
+        unsure = [
+            i for i in contenders
+            if se[i] > settings.relative_error * max(q[i], 1e-3)
+            and counts[i] < settings.max_samples
+        ]  # fmt: skip
+        active = unsure
+        target = min(target * 2, settings.max_samples)
+    zones = []
+    for i, obj in enumerate(objects):
+        rest = np.concatenate(offsets[i], axis=1)
+        distance = np.hypot(rest[0], rest[1])
+        q_rest, se_rest = quantile_with_error(distance, p)
+        q_drift, _ = quantile_with_error(np.concatenate(drifts[i]), p)
+        carried = float(np.mean(np.isnan(distance)))
+        envelope = envelope_distance(obj, settings)
+        finite = distance[np.isfinite(distance)]
+        zones.append(
+            ObjectZone(
+                obj=obj,
+                radius=q_rest + settings.margin,
+                drift=min(q_drift, q_rest),
+                scatter=max(q_rest - q_drift, 0.0),
+                standard_error=se_rest,
+                samples=int(distance.size),
+                max_sampled=float(finite.max()) if finite.size else math.inf,
+                worst_case=envelope + settings.margin,
+                carried_away=carried,
+                offsets=rest,
+            )
+        )
+    driver = max(zones, key=lambda z: z.radius)
+    worst = max(zones, key=lambda z: z.worst_case)
+    mean, gust = _mean_and_gust(settings)
+    return ZoneResult(settings, tuple(zones), driver, worst, gust, _turbulence(settings))
+
+
+def highest_wind(
+    objects: Sequence[ZoneObject],
+    settings: ZoneSettings,
+    distance: float,
+    low: float = 0.0,
+    high: float = 60.0,
+) -> float:
+    """Highest mean wind at 10 m [m/s] for which the zone radius stays within ``distance``.
+
+    Bisection on the wind speed with the same random numbers at every trial (common random
+    numbers keep the radius a smooth, increasing function of the speed); 0 when even still air
+    needs more, ``high`` when even that fits.
+    """
+    from dataclasses import replace
+
+    def radius_at(speed: float) -> float:
+        wind = replace(settings.wind, speed_10m=speed, kind="mean")
+        return compute_zone(
+            objects, replace(settings, wind=wind, max_samples=INITIAL_SAMPLES)
+        ).radius
+
+    if radius_at(low) > distance:
+        return low
+    if radius_at(high) <= distance:
+        return high
+    for _ in range(30):
+        mid = 0.5 * (low + high)
+        if radius_at(mid) <= distance:
+            low = mid
+        else:
+            high = mid
+        if high - low < 0.05:
+            break
+    return low
+
+
+def greatest_height(
+    objects: Sequence[ZoneObject],
+    settings: ZoneSettings,
+    distance: float,
+    low: float = 0.5,
+    high: float = 500.0,
+) -> float:
+    """Greatest work height [m] for which the zone radius stays within ``distance``.
+
+    Bisection on the height with common random numbers; 0 when even ``low`` needs more,
+    ``high`` when even that fits.
+    """
+    from dataclasses import replace
+
+    def radius_at(height: float) -> float:
+        return compute_zone(
+            objects, replace(settings, height=height, max_samples=INITIAL_SAMPLES)
+        ).radius
+
+    if radius_at(low) > distance:
+        return 0.0
+    if radius_at(high) <= distance:
+        return high
+    for _ in range(40):
+        mid = math.sqrt(low * high)
+        if radius_at(mid) <= distance:
+            low = mid
+        else:
+            high = mid
+        if high / low < 1.002:
+            break
+    return low
