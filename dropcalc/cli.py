@@ -555,7 +555,21 @@ def batch(
 
 @app.command()
 def zone(
-    height: Annotated[str, typer.Option(help='Work height above the ground, e.g. "18 m".')],
+    height: Annotated[
+        str | None,
+        typer.Option(help='Work height above the ground, e.g. "18 m" (with --site: per edge).'),
+    ] = None,
+    site: Annotated[
+        Path | None,
+        typer.Option(help="Site plan (TOML): building outline and work edges with heights."),
+    ] = None,
+    plot: Annotated[
+        Path | None, typer.Option(help="With --site: write the plan drawing (PNG or SVG).")
+    ] = None,
+    geojson: Annotated[
+        Path | None,
+        typer.Option(help="With --site and its origin: write the area as GeoJSON (WGS84)."),
+    ] = None,
     object_ids: Annotated[
         list[str] | None,
         typer.Option("--object", help="Library object id; repeat for several objects."),
@@ -624,9 +638,25 @@ def zone(
             elevation=elevation, air_temp=air_temp, pressure=pressure, humidity=humidity,
             air_density=air_density, latitude=latitude, edge_azimuth=edge_azimuth,
         )  # fmt: skip
-        objects = _zone_objects(object_ids, items, mass, drag_area, library, height)
+        if site is None and height is None:
+            raise InputError("give --height (or --site with the edge heights)")
+        if site is None and (plot is not None or geojson is not None):
+            raise InputError("--plot and --geojson draw the site plan: give --site too")
+        plan = None
+        if site is not None:
+            from dropcalc.plan import load_site
+
+            plan = load_site(site)
+            if geojson is not None and plan.origin_lat is None:
+                raise InputError(f"--geojson needs the site's origin (lat, lon) in {site.name}")
+        height_m = (
+            float(_q(height, "length", "--height"))
+            if height is not None
+            else max(edge.height for edge in plan.site.edges)
+        )
+        objects = _zone_objects(object_ids, items, mass, drag_area, library, height_m)
         settings = ZoneSettings(
-            height=float(_q(height, "length", "--height")),
+            height=height_m,
             release=_release(
                 release.value, release_speed, release_angle, roof_pitch, roof_length, friction
             ),
@@ -640,7 +670,17 @@ def zone(
             relative_error=precision,
             seed=seed,
         )
-        result = compute_zone(objects, settings, _progress(as_json))
+        site_result = None
+        if plan is not None:
+            from dropcalc.zone import site_zone
+
+            site_result = site_zone(
+                objects, settings, plan.site, _progress(as_json), wind_outward=wind_from is None
+            )
+            result = site_result.driver[2]
+            _write_plan(site_result, plan, plot, geojson, env.wind, wind_from is None)
+        else:
+            result = compute_zone(objects, settings, _progress(as_json))
         limits = None
         if barricade is not None:
             distance = float(_q(barricade, "length", "--barricade"))
@@ -654,12 +694,50 @@ def zone(
     except DropcalcError as exc:
         _fail(str(exc))
         return
-    from dropcalc.render import render_zone, zone_json
+    from dropcalc.render import render_zone, site_json, zone_json
 
     if as_json:
-        typer.echo(json.dumps(zone_json(result, limits), indent=2, allow_nan=False))
+        out = zone_json(result, limits)
+        if site_result is not None:
+            out.update(site_json(site_result))
+        typer.echo(json.dumps(out, indent=2, allow_nan=False))
     else:
-        typer.echo(render_zone(result, units.value, limits))
+        typer.echo(render_zone(result, units.value, limits, site_result))
+
+
+def _write_plan(
+    site_result: Any,
+    plan: Any,
+    plot: Path | None,
+    geojson: Path | None,
+    wind: Any,
+    outward: bool,
+) -> None:
+    """Write the plan drawing and the GeoJSON of a site zone, where asked."""
+    if geojson is not None:
+        from dropcalc.output import write_atomic
+        from dropcalc.plan import to_geojson
+
+        data = to_geojson(
+            site_result.area, plan.site, plan.origin_lat, plan.origin_lon,
+            {"radius_m": site_result.radius,
+             "confidence": site_result.driver[2].settings.confidence,
+             "worst_case_radius_m": site_result.worst_case},
+        )  # fmt: skip
+        text = json.dumps(data, indent=1)
+        write_atomic(geojson, lambda p: p.write_text(text, encoding="utf-8"))
+    if plot is not None:
+        from dropcalc.plan_plot import plot_plan
+
+        toward = None if outward else (wind.from_direction_deg + 180.0) % 360.0
+        label = (
+            "still air" if wind.speed_10m == 0
+            else f"{wind.speed_10m:g} m/s {wind.kind}"
+            + ("\nassumed out from\neach edge" if outward else "")
+        )  # fmt: skip
+        plot_plan(
+            site_result.area, plan.site, toward, plot, title="Exclusion area", wind_label=label
+        )
 
 
 def _zone_objects(
@@ -668,7 +746,7 @@ def _zone_objects(
     mass: str | None,
     drag_area: str | None,
     library: Path | None,
-    height: str,
+    height: float,
 ) -> list[Any]:
     """The zone's objects from --object, --items or --mass/--drag-area (raises InputError)."""
     from dropcalc.zone import ZoneObject
@@ -685,9 +763,7 @@ def _zone_objects(
             from dropcalc.batch import BatchSettings, parse_items, read_table
 
             frame = read_table(items)
-            parsed, errors = parse_items(
-                frame, lib, BatchSettings(height=float(_q(height, "length", "--height")))
-            )
+            parsed, errors = parse_items(frame, lib, BatchSettings(height=height))
             if errors:
                 first = errors[0]
                 raise InputError(f"{items.name}: row {first.row}: {first.message}")

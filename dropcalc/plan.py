@@ -17,6 +17,7 @@ from __future__ import annotations
 import math
 from collections.abc import Sequence
 from dataclasses import dataclass
+from pathlib import Path
 from typing import Any
 
 import numpy as np
@@ -635,3 +636,76 @@ def from_geojson_local(
         for geometry in geometries
     ]
     return local[0] if len(local) == 1 else GeometryCollection(local)
+
+
+@dataclass(frozen=True)
+class SitePlan:
+    """A site read from a file: the geometry and, if given, its WGS84 origin."""
+
+    site: Site
+    origin_lat: float | None = None
+    origin_lon: float | None = None
+
+
+def load_site(path: Path) -> SitePlan:
+    """Read a site file (TOML) with the building outline, work edges and optional origin.
+
+    Format (local metres, x east, y north; heights accept units)::
+
+        origin = { lat = 51.5012, lon = -0.1419 }      # optional, for GeoJSON
+        outline = [[0, 0], [30, 0], [30, 20], [0, 20]]  # optional building or roof outline
+        [[edge]]
+        name = "north parapet"
+        points = [[0, 20], [30, 20]]
+        height = "18 m"
+
+    Raises
+    ------
+    InputError
+        Naming the file and the key for any mistake.
+    """
+    import tomllib
+
+    from dropcalc.units import parse_quantity
+
+    path = Path(path)
+    try:
+        data = tomllib.loads(path.read_text(encoding="utf-8-sig"))
+    except OSError as exc:
+        raise InputError(f"{path}: cannot read the site file ({exc.strerror})") from None
+    except tomllib.TOMLDecodeError as exc:
+        raise InputError(f"{path}: not valid TOML ({exc})") from None
+    unknown = set(data) - {"origin", "outline", "edge"}
+    if unknown:
+        raise InputError(
+            f"{path}: unknown key {sorted(unknown)[0]!r}; allowed: origin, outline, edge"
+        )
+    raw_edges = data.get("edge")
+    if not isinstance(raw_edges, list) or not raw_edges:
+        raise InputError(f"{path}: expected one or more [[edge]] tables (the work edges)")
+    edges = []
+    for number, raw in enumerate(raw_edges, start=1):
+        where = f"{path}: edge[{number}]"
+        if not isinstance(raw, dict):
+            raise InputError(f"{where}: expected a table with name, points and height")
+        extra = set(raw) - {"name", "points", "height"}
+        if extra:
+            raise InputError(f"{where}: unknown key {sorted(extra)[0]!r}")
+        if "height" not in raw or "points" not in raw:
+            raise InputError(f"{where}: needs points and height")
+        height = parse_quantity(raw["height"], "length", f"{where}.height")
+        try:
+            edges.append(
+                WorkEdge(str(raw.get("name", f"edge {number}")), tuple(raw["points"]), height)
+            )
+        except (TypeError, ValueError) as exc:
+            raise InputError(f"{where}: {exc}") from None
+    outline = data.get("outline")
+    site = Site(tuple(map(tuple, outline)) if outline is not None else None, tuple(edges))
+    origin = data.get("origin")
+    if origin is None:
+        return SitePlan(site)
+    if not isinstance(origin, dict) or set(origin) != {"lat", "lon"}:
+        raise InputError(f"{path}: origin must be {{ lat = ..., lon = ... }} in degrees")
+    lat, lon = _check_origin(float(origin["lat"]), float(origin["lon"]))
+    return SitePlan(site, lat, lon)

@@ -93,6 +93,8 @@ def _draw_wind_arrow(axes: Any, wind_toward_deg: float | None, wind_label: str) 
     axes.add_patch(Circle((0, 0), 0.72, facecolor="none", edgecolor="#b9b6b0", lw=1, ls=":"))
     if wind_toward_deg is None:
         axes.text(0, 0, "wind\nnot given", ha="center", va="center", fontsize=8.5, color=INK)
+        if wind_label:
+            axes.text(0, -0.85, wind_label, ha="center", va="top", fontsize=8.5, color=INK)
         return
     bearing = math.radians(wind_toward_deg)
     east, north = math.sin(bearing), math.cos(bearing)

@@ -365,8 +365,28 @@ def zone_statement(result: object, system: str = "si") -> str:
     return text
 
 
+def site_json(site_result: object) -> dict:
+    """Plan figures of a site zone for the JSON output."""
+    return {
+        "site_radius_m": site_result.radius,
+        "site_worst_case_radius_m": site_result.worst_case,
+        "area_m2": site_result.area.area_m2,
+        "area_max_distance_from_edge_m": site_result.area.max_distance_m,
+        "driving_edge": site_result.driver[0],
+        "segments": [
+            {"edge": name, "segment": index, "radius_m": z.radius,
+             "worst_case_radius_m": z.worst_case, "height_m": z.settings.height,
+             "edge_azimuth_deg": z.settings.edge_azimuth}
+            for name, index, z in site_result.segments
+        ],
+    }  # fmt: skip
+
+
 def render_zone(
-    result: object, system: str = "si", limits: tuple[float, float, float] | None = None
+    result: object,
+    system: str = "si",
+    limits: tuple[float, float, float] | None = None,
+    site_result: object | None = None,
 ) -> str:
     """Readable zone summary with its parts, per-object lines and the cautions."""
     r = result
@@ -411,6 +431,19 @@ def render_zone(
         wrapped = textwrap.wrap(text, 90 - width) or [""]
         lines.append(f"  {label:<{width}}{wrapped[0]}")
         lines.extend(f"  {'':<{width}}{w}" for w in wrapped[1:])
+    if site_result is not None:
+        lines.append("")
+        area = site_result.area
+        lines.extend(textwrap.wrap(
+            f"  Site: exclusion area {area.area_m2:,.0f} m², reaching "
+            f"{_fmt(area.max_distance_m, 'length', system)} from the nearest work edge; widest "
+            f"zone at {site_result.driver[0]}.", 90, subsequent_indent="  "))  # fmt: skip
+        for name, index, z in site_result.segments:
+            lines.append(
+                f"    {name} (segment {index + 1}, {z.settings.height:g} m, facing "
+                f"{z.settings.edge_azimuth:.0f}°): {_fmt(z.radius, 'length', system)}"
+                f" / worst case {_fmt(z.worst_case, 'length', system)}"
+            )
     if len(r.objects) > 1:
         lines.append("")
         lines.append("  Per object (radius at confidence / worst case):")

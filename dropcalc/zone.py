@@ -250,15 +250,15 @@ def _mean_and_gust(settings: ZoneSettings) -> tuple[float, float]:
 
 
 def _truncated_normal(rng: np.random.Generator, n: int, low: float, high: float) -> np.ndarray:
-    """Standard normal samples restricted to [low, high] by inverse-CDF sampling."""
-    from math import erf, sqrt
-
-    from scipy.special import ndtri
-
-    cdf_low = 0.5 * (1 + erf(low / sqrt(2))) if math.isfinite(low) else 0.0
-    cdf_high = 0.5 * (1 + erf(high / sqrt(2))) if math.isfinite(high) else 1.0
-    u = rng.uniform(cdf_low, cdf_high, n)
-    return ndtri(np.clip(u, 1e-300, 1 - 1e-16))
+    """Standard normal samples restricted to [low, high] (rejection; the bounds are wide)."""
+    out = np.empty(n)
+    filled = 0
+    while filled < n:
+        draw = rng.standard_normal(max(2 * (n - filled), 64))
+        keep = draw[(draw >= low) & (draw <= high)][: n - filled]
+        out[filled : filled + keep.size] = keep
+        filled += keep.size
+    return out
 
 
 def _release_velocities(settings: ZoneSettings, n: int, rng: np.random.Generator) -> np.ndarray:
@@ -608,3 +608,63 @@ def greatest_height(
         if high / low < 1.002:
             break
     return low
+
+
+@dataclass(frozen=True)
+class SiteZone:
+    """The exclusion area around a site: per-segment zones and their union on the plan."""
+
+    area: object  # dropcalc.plan.ExclusionArea
+    segments: tuple[tuple[str, int, ZoneResult], ...]  # (edge name, segment index, zone)
+    driver: tuple[str, int, ZoneResult]  # the segment with the widest radius
+
+    @property
+    def radius(self) -> float:
+        """Widest exclusion radius over the segments [m], margin included."""
+        return self.driver[2].radius
+
+    @property
+    def worst_case(self) -> float:
+        """Widest envelope radius over the segments [m], margin included."""
+        return max(z.worst_case for _, _, z in self.segments)
+
+
+def site_zone(
+    objects: Sequence[ZoneObject],
+    settings: ZoneSettings,
+    site: object,
+    progress: Callable[[int, int], None] | None = None,
+    wind_outward: bool = False,
+) -> SiteZone:
+    """Exclusion area on the plan: a zone for every segment of every work edge, swept along it.
+
+    Each segment gets its own Monte Carlo (its height and its outward direction, with the wind
+    of the day); each object's rest positions give a footprint holding the confidence share of
+    them (:func:`dropcalc.plan.footprint`), swept along the segment and joined with the others,
+    plus the margin (:func:`dropcalc.plan.exclusion_area`). With ``wind_outward`` the wind
+    blows straight out from each segment in turn (the conservative choice when the direction of
+    the day is not known); otherwise it keeps the direction in ``settings``.
+    """
+    from dataclasses import replace
+
+    from dropcalc.plan import exclusion_area, footprint, segment_normals
+
+    segments = []
+    footprints = []
+    for e, edge in enumerate(site.edges):
+        for i, (nx, ny) in enumerate(segment_normals(site, edge)):
+            azimuth = math.degrees(math.atan2(nx, ny)) % 360.0
+            local = replace(settings, height=edge.height, edge_azimuth=azimuth)
+            if wind_outward:
+                # No wind direction given: the conservative one for this segment, straight out.
+                wind = replace(settings.wind, from_direction_deg=(azimuth + 180.0) % 360.0)
+                local = replace(local, wind=wind)
+            result = compute_zone(objects, local, progress)
+            segments.append((edge.name, i, result))
+            for zone_ in result.objects:
+                rest = zone_.offsets[:, np.all(np.isfinite(zone_.offsets), axis=0)]
+                if rest.shape[1] >= 3:
+                    footprints.append((e, i, footprint(rest.T, settings.confidence)))
+    area = exclusion_area(site, footprints, settings.margin)
+    driver = max(segments, key=lambda item: item[2].radius)
+    return SiteZone(area, tuple(segments), driver)
