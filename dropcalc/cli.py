@@ -749,7 +749,7 @@ def _zone_objects(
     height: float,
 ) -> list[Any]:
     """The zone's objects from --object, --items or --mass/--drag-area (raises InputError)."""
-    from dropcalc.zone import ZoneObject
+    from dropcalc.zone import ZoneObject, zone_object, zone_objects_from_items
 
     objects: list[ZoneObject] = []
     if object_ids or items is not None:
@@ -757,8 +757,7 @@ def _zone_objects(
 
         lib = load_library(library)
         for object_id in object_ids or []:
-            obj = lib.get(object_id)
-            objects.append(_zone_object(obj))
+            objects.append(zone_object(lib.get(object_id)))
         if items is not None:
             from dropcalc.batch import BatchSettings, parse_items, read_table
 
@@ -767,21 +766,7 @@ def _zone_objects(
             if errors:
                 first = errors[0]
                 raise InputError(f"{items.name}: row {first.row}: {first.message}")
-            for item in parsed:
-                known = lib.get(item.object_id) if item.object_id else None
-                objects.append(
-                    _zone_object(known)
-                    if known is not None
-                    else ZoneObject(
-                        name=item.label or f"row {item.row}",
-                        mass=item.mass,
-                        drag_area_min=item.drag_area_min,
-                        drag_area_max=item.drag_area_max,
-                        quantity=item.quantity,
-                        glides=item.glides,
-                        fragile=item.fragile,
-                    )
-                )
+            objects.extend(zone_objects_from_items(parsed, lib))
     if mass is not None or drag_area is not None:
         if mass is None or drag_area is None:
             raise InputError("a custom object needs both --mass and --drag-area")
@@ -799,21 +784,6 @@ def _zone_objects(
             "give the objects: --object ID (repeatable), --items FILE, or --mass with --drag-area"
         )
     return objects
-
-
-def _zone_object(obj: Any) -> Any:
-    from dropcalc.zone import ZoneObject
-
-    return ZoneObject(
-        name=obj.name,
-        mass=obj.mass,
-        drag_area_min=obj.drag_area_min,
-        drag_area_max=obj.drag_area_max,
-        object_id=obj.id,
-        fragile=obj.fragile,
-        rolls="rolls" in obj.hazards,
-        glides=obj.glides,
-    )
 
 
 objects_app = typer.Typer(

@@ -668,3 +668,41 @@ def site_zone(
     area = exclusion_area(site, footprints, settings.margin)
     driver = max(segments, key=lambda item: item[2].radius)
     return SiteZone(area, tuple(segments), driver)
+
+
+def zone_object(obj: object) -> ZoneObject:
+    """The zone's view of a library object (:class:`dropcalc.library.DropObject`)."""
+    return ZoneObject(
+        name=obj.name,
+        mass=obj.mass,
+        drag_area_min=obj.drag_area_min,
+        drag_area_max=obj.drag_area_max,
+        object_id=obj.id,
+        fragile=obj.fragile,
+        rolls="rolls" in obj.hazards,
+        glides=obj.glides,
+    )
+
+
+def zone_objects_from_items(items: Sequence[object], library: object) -> list[ZoneObject]:
+    """Zone objects for batch items: library ones with their properties, custom ones as given."""
+    objects = []
+    for item in items:
+        if item.object_id:
+            found = zone_object(library.get(item.object_id))
+            objects.append(
+                ZoneObject(**{**found.__dict__, "quantity": item.quantity, "name": item.label})
+            )
+        else:
+            objects.append(
+                ZoneObject(
+                    name=item.label or f"row {item.row}",
+                    mass=item.mass,
+                    drag_area_min=item.drag_area_min,
+                    drag_area_max=item.drag_area_max,
+                    quantity=item.quantity,
+                    glides=item.glides,
+                    fragile=item.fragile,
+                )
+            )
+    return objects

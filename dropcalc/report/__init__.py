@@ -1,0 +1,1 @@
+"""The PDF report: data gathered from a scenario, figures, and the reportlab document."""

@@ -1,0 +1,365 @@
+"""The scenario file: one TOML file that describes a job for the report.
+
+Reference: ``docs/scenario.md``; a commented example: ``templates/example-scenario.toml`` (the
+demo's scenario). Every quantity accepts units ("18 m", "25 mph", "8 degC"); every field has a
+documented default. A mistake is reported with the file, the key path and the line::
+
+    scenario.toml: line 31: work_area[1].edge[1].height: expected a length (e.g. "12 m",
+    "40 ft"); got "twelve"
+"""
+
+from __future__ import annotations
+
+import hashlib
+import math
+import re
+import tomllib
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+
+from dropcalc.errors import DropcalcError, InputError
+
+#: Tables and keys a scenario may have (anything else is a mistake, reported as such).
+_KEYS: dict[str, set[str]] = {
+    "": {"job", "site", "wind", "policy", "work_area", "object", "objects_file"},
+    "job": {
+        "title", "site", "client", "reference", "prepared_by", "checked_by", "revision", "date",
+    },
+    "site": {
+        "elevation", "air_temperature", "pressure", "humidity", "air_density", "latitude",
+        "ground", "origin", "outline",
+    },
+    "wind": {"speed", "kind", "from", "terrain", "profile", "exponent", "roughness"},
+    "policy": {"confidence", "margin", "levels", "rules_file", "precision", "seed"},
+    "work_area": {"name", "release", "release_speed", "release_angle", "edge"},
+    "edge": {"name", "points", "height"},
+    "object": {"id", "label", "quantity", "mass", "drag_area", "contact_area"},
+}  # fmt: skip
+
+
+@dataclass(frozen=True)
+class WorkArea:
+    """One work area: edges with heights, and how objects leave them."""
+
+    name: str
+    release: Any  # dropcalc.physics.release.Release
+    site: Any  # dropcalc.plan.Site (outline shared, this area's edges)
+
+
+@dataclass(frozen=True)
+class Scenario:
+    """A validated scenario, SI units, ready for the report."""
+
+    path: Path
+    sha256: str
+    job: dict[str, str]
+    air: Any  # AirState
+    gravity: float
+    wind: Any  # WindSpec
+    wind_from_given: bool
+    ground: Any  # Surface
+    origin: tuple[float, float] | None
+    work_areas: tuple[WorkArea, ...]
+    items: Any  # list of dropcalc.batch.Item
+    confidence: float
+    margin: float
+    precision: float
+    seed: int
+    levels: tuple[Any, ...]
+    rules: tuple[Any, ...]
+    library: Any
+    notes: list[str] = field(default_factory=list)
+
+
+class _Where:
+    """Key paths and their lines in the scenario text, for messages."""
+
+    def __init__(self, path: Path, text: str) -> None:
+        self.path = path
+        self.lines = text.splitlines()
+
+    def line_of(self, key_path: str) -> int | None:
+        """Best-effort line number of a key path like ``work_area[2].edge[1].height``."""
+        start = 0
+        parts = key_path.split(".")
+        table = ""
+        for i, part in enumerate(parts):
+            match = re.fullmatch(r"(\w+)\[(\d+)\]", part)
+            if match:
+                name, index = match[1], int(match[2])
+                table = f"{table}.{name}" if table else name
+                pattern = re.compile(rf"^\s*\[\[\s*{re.escape(table)}\s*\]\]")
+                found = 0
+                for n in range(start, len(self.lines)):
+                    if pattern.match(self.lines[n]):
+                        found += 1
+                        if found == index:
+                            start = n
+                            break
+                else:
+                    return None
+            elif i == len(parts) - 1:
+                key = re.compile(rf"^\s*{re.escape(part)}\s*=")
+                for n in range(start, len(self.lines)):
+                    if key.match(self.lines[n]):
+                        return n + 1
+                return start + 1 if start else None
+            else:
+                table = f"{table}.{part}" if table else part
+                pattern = re.compile(rf"^\s*\[\s*{re.escape(table)}\s*\]")
+                for n in range(start, len(self.lines)):
+                    if pattern.match(self.lines[n]):
+                        start = n
+                        break
+        return start + 1 if start else None
+
+    def error(self, key_path: str, message: str) -> InputError:
+        """An InputError naming the file, the line (when found) and the key path."""
+        line = self.line_of(key_path)
+        at = f"line {line}: " if line else ""
+        return InputError(f"{self.path.name}: {at}{key_path}: {message}")
+
+
+def _strip_field(message: str) -> str:
+    """Drop a leading field name from a model's message (the key path replaces it)."""
+    return re.sub(r"^[-\w]+:\s*", "", message, count=1)
+
+
+def load_scenario(path: Path) -> Scenario:
+    """Read and validate a scenario file.
+
+    Raises
+    ------
+    InputError
+        For a file that cannot be read, is not TOML, or has a wrong key, value or unit; the
+        message names the file, the line and the key path.
+    """
+    from dropcalc.batch import BatchSettings, parse_items, read_table
+    from dropcalc.library import load_library
+    from dropcalc.physics.atmosphere import air_state
+    from dropcalc.physics.gravity import gravity as local_gravity
+    from dropcalc.physics.release import Release
+    from dropcalc.physics.scatter import surface
+    from dropcalc.physics.wind import wind_spec
+    from dropcalc.plan import Site, WorkEdge
+    from dropcalc.policy import DEFAULT_RULES, load_policy
+    from dropcalc.reference_levels import DEFAULT_LEVEL_KEYS, reference_level
+    from dropcalc.units import parse_quantity
+
+    path = Path(path)
+    try:
+        raw_bytes = path.read_bytes()
+    except OSError as exc:
+        raise InputError(f"{path}: cannot read the scenario ({exc.strerror})") from None
+    try:
+        text = raw_bytes.decode("utf-8-sig")
+        data = tomllib.loads(text)
+    except UnicodeDecodeError:
+        raise InputError(f"{path.name}: not UTF-8 text; save the scenario as UTF-8") from None
+    except tomllib.TOMLDecodeError as exc:
+        raise InputError(f"{path.name}: not valid TOML: {exc}") from None
+    where = _Where(path, text)
+
+    def check_keys(table: dict[str, Any], kind: str, key_path: str) -> None:
+        for key in table:
+            if key not in _KEYS[kind]:
+                allowed = ", ".join(sorted(_KEYS[kind]))
+                raise where.error(
+                    f"{key_path}.{key}" if key_path else key, f"unknown key; allowed: {allowed}"
+                )
+
+    def table(name: str) -> dict[str, Any]:
+        value = data.get(name, {})
+        if not isinstance(value, dict):
+            raise where.error(name, "expected a table, e.g. [" + name + "]")
+        check_keys(value, name, name)
+        return value
+
+    def quantity(value: Any, kind: str, key_path: str) -> float:
+        try:
+            return parse_quantity(value, kind, key_path)
+        except InputError as exc:
+            raise where.error(key_path, _strip_field(str(exc))) from None
+
+    def model(key_path: str, build: Any) -> Any:
+        try:
+            return build()
+        except DropcalcError as exc:
+            raise where.error(key_path, str(exc)) from None
+
+    def text_of(value: Any, key_path: str) -> str:
+        if not isinstance(value, str | int | float) or isinstance(value, bool):
+            raise where.error(key_path, f"expected text; got {value!r}")
+        return str(value)
+
+    check_keys(data, "", "")
+    job_table = table("job")
+    if "title" not in job_table:
+        raise where.error("job.title", "missing: every report needs a title")
+    job = {k: text_of(v, f"job.{k}") for k, v in job_table.items()}
+
+    site_table = table("site")
+    elevation = quantity(site_table.get("elevation", 0), "length", "site.elevation")
+    optional = {
+        "temperature": ("air_temperature", "temperature"),
+        "pressure": ("pressure", "pressure"),
+        "relative_humidity": ("humidity", "fraction"),
+        "density": ("air_density", "density"),
+    }
+    air_args = {
+        arg: quantity(site_table[key], kind, f"site.{key}")
+        for arg, (key, kind) in optional.items()
+        if key in site_table
+    }
+    air = model("site", lambda: air_state(elevation=elevation, **air_args))
+    latitude = site_table.get("latitude")
+    g = model("site.latitude", lambda: local_gravity(latitude, elevation))
+    ground = model("site.ground", lambda: surface(site_table.get("ground", "concrete")))
+    origin = None
+    if "origin" in site_table:
+        o = site_table["origin"]
+        if not isinstance(o, dict) or set(o) != {"lat", "lon"}:
+            raise where.error("site.origin", "expected { lat = ..., lon = ... } in degrees")
+        origin = (float(o["lat"]), float(o["lon"]))
+    outline = site_table.get("outline")
+
+    wind_table = table("wind")
+    speed = quantity(wind_table.get("speed", 0), "speed", "wind.speed")
+    wind_from_given = "from" in wind_table
+    from_direction = (
+        quantity(wind_table["from"], "angle", "wind.from") if wind_from_given else 270.0
+    )
+    wind = model(
+        "wind",
+        lambda: wind_spec(
+            speed,
+            kind=text_of(wind_table.get("kind", "mean"), "wind.kind"),
+            from_direction=from_direction,
+            profile=wind_table.get("profile"),
+            exponent=wind_table.get("exponent"),
+            roughness_length=(
+                quantity(wind_table["roughness"], "length", "wind.roughness")
+                if "roughness" in wind_table
+                else None
+            ),
+            terrain=wind_table.get("terrain"),
+        ),
+    )
+
+    policy = table("policy")
+    confidence = float(policy.get("confidence", 0.99))
+    if not (0.5 <= confidence <= 0.9999):
+        raise where.error("policy.confidence", f"must be between 0.5 and 0.9999; got {confidence}")
+    margin = quantity(policy.get("margin", "2 m"), "length", "policy.margin")
+    precision = float(policy.get("precision", 0.01))
+    seed = int(policy.get("seed", 1))
+    level_keys = policy.get("levels", list(DEFAULT_LEVEL_KEYS))
+    if not isinstance(level_keys, list):
+        raise where.error("policy.levels", "expected a list of reference level keys")
+    levels = tuple(model("policy.levels", lambda k=k: reference_level(str(k))) for k in level_keys)
+    rules = DEFAULT_RULES
+    if "rules_file" in policy:
+        rules_path = path.parent / str(policy["rules_file"])
+        rules = model("policy.rules_file", lambda: load_policy(rules_path))
+
+    raw_areas = data.get("work_area")
+    if not isinstance(raw_areas, list) or not raw_areas:
+        raise where.error("work_area", "expected one or more [[work_area]] tables")
+    areas = []
+    for a, raw in enumerate(raw_areas, start=1):
+        key = f"work_area[{a}]"
+        if not isinstance(raw, dict):
+            raise where.error(key, "expected a table")
+        check_keys(raw, "work_area", key)
+        mode = text_of(raw.get("release", "drop"), f"{key}.release")
+        release_speed = (
+            quantity(raw["release_speed"], "speed", f"{key}.release_speed")
+            if "release_speed" in raw
+            else 0.0
+        )
+        angle = (
+            quantity(raw["release_angle"], "angle", f"{key}.release_angle")
+            if "release_angle" in raw
+            else 0.0
+        )
+        release = model(f"{key}.release", lambda m=mode, v=release_speed, t=angle: Release(m, v, t))
+        raw_edges = raw.get("edge")
+        if not isinstance(raw_edges, list) or not raw_edges:
+            raise where.error(f"{key}.edge", "expected one or more [[work_area.edge]] tables")
+        edges = []
+        for e, raw_edge in enumerate(raw_edges, start=1):
+            edge_key = f"{key}.edge[{e}]"
+            check_keys(raw_edge, "edge", edge_key)
+            for needed in ("points", "height"):
+                if needed not in raw_edge:
+                    raise where.error(f"{edge_key}.{needed}", "missing")
+            height = quantity(raw_edge["height"], "length", f"{edge_key}.height")
+            name = text_of(raw_edge.get("name", f"edge {e}"), f"{edge_key}.name")
+            edges.append(
+                model(edge_key, lambda n=name, p=raw_edge["points"], h=height: WorkEdge(n, p, h))
+            )
+        site = model(f"{key}", lambda e=edges: Site(outline, tuple(e)))
+        name = text_of(raw.get("name", f"work area {a}"), f"{key}.name")
+        areas.append(WorkArea(name, release, site))
+
+    library = load_library()
+    from dropcalc.fall import check_object
+
+    raw_objects = data.get("object", [])
+    if not isinstance(raw_objects, list):
+        raise where.error("object", "expected [[object]] tables")
+    items = []
+    settings = BatchSettings(height=max(e.height for w in areas for e in w.site.edges))
+    import pandas as pd
+
+    records = []
+    for o, raw in enumerate(raw_objects, start=1):
+        key = f"object[{o}]"
+        if not isinstance(raw, dict):
+            raise where.error(key, "expected a table")
+        check_keys(raw, "object", key)
+        records.append({k: str(v) for k, v in raw.items()})
+    if records:
+        frame = pd.DataFrame(records).fillna("")
+        parsed, errors = parse_items(frame, library, settings)
+        if errors:
+            first = errors[0]
+            raise where.error(f"object[{first.row - 1}]", first.message)
+        items.extend(parsed)
+    if "objects_file" in data:
+        list_path = path.parent / str(data["objects_file"])
+        frame = model("objects_file", lambda: read_table(list_path))
+        parsed, errors = parse_items(frame, library, settings)
+        if errors:
+            first = errors[0]
+            raise where.error("objects_file", f"{list_path.name}: row {first.row}: {first.message}")
+        items.extend(parsed)
+    if not items:
+        raise where.error("object", "no objects: add [[object]] tables or an objects_file")
+    for item in items:
+        check_object(item.mass, item.drag_area_min, settings.height, item.contact_area)
+    if origin is not None and not (
+        math.isfinite(origin[0]) and -85 <= origin[0] <= 85 and -180 <= origin[1] <= 180
+    ):
+        raise where.error("site.origin", f"latitude -85..85 and longitude -180..180; got {origin}")
+    return Scenario(
+        path=path,
+        sha256=hashlib.sha256(raw_bytes).hexdigest(),
+        job=job,
+        air=air,
+        gravity=g,
+        wind=wind,
+        wind_from_given=wind_from_given,
+        ground=ground,
+        origin=origin,
+        work_areas=tuple(areas),
+        items=items,
+        confidence=confidence,
+        margin=margin,
+        precision=precision,
+        seed=seed,
+        levels=levels,
+        rules=rules,
+        library=library,
+    )
