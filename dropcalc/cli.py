@@ -786,6 +786,107 @@ def _zone_objects(
     return objects
 
 
+@app.command()
+def report(
+    scenario: Annotated[Path, typer.Argument(help="The scenario file (TOML).")],
+    output: Annotated[Path, typer.Option("-o", "--output", help="The PDF to write.")] = Path(
+        "report.pdf"
+    ),
+    as_json: JsonOpt = False,
+) -> None:
+    """Write the exclusion-zone report (PDF) for a scenario file."""
+    import tempfile
+
+    try:
+        from dropcalc.report.build import build_results, summary_json
+        from dropcalc.scenario import load_scenario
+
+        if output.suffix.lower() != ".pdf":
+            raise InputError(f"-o must name a .pdf file; got {output.name}")
+        loaded = load_scenario(scenario)
+        with tempfile.TemporaryDirectory(prefix="dropcalc-figures-") as folder:
+            results = build_results(loaded, Path(folder), _progress(as_json))
+            pages = _write_pdf(results, output)
+    except DropcalcError as exc:
+        _fail(str(exc))
+        return
+    summary = summary_json(results, output)
+    summary["pages"] = pages
+    if as_json:
+        typer.echo(json.dumps(summary, indent=2, allow_nan=False))
+    else:
+        typer.echo(_report_lines(summary))
+
+
+def _write_pdf(results: Any, output: Path) -> int:
+    from dropcalc.report.pdf import write_report
+
+    return write_report(results.report, output)
+
+
+def _report_lines(summary: dict[str, Any]) -> str:
+    lines = [f"Report written: {summary['pdf']} ({summary['pages']} pages)"]
+    for area in summary["work_areas"]:
+        lines.append(
+            f"  {area['name']}: keep {area['radius_m']:.3g} m clear "
+            f"({100 * summary['confidence']:g} % of simulated drops, margin included); "
+            f"worst case {area['worst_case_radius_m']:.3g} m; area {area['area_m2']:,.0f} m²"
+        )
+    from dropcalc.texts import CAUTION_SHORT
+
+    lines.append("Caution: " + CAUTION_SHORT)
+    return "\n".join(lines)
+
+
+@app.command()
+def demo(
+    out: Annotated[
+        Path, typer.Option(help="Folder for the demo's files (created if missing).")
+    ] = Path("dropcalc-demo"),
+    as_json: JsonOpt = False,
+) -> None:
+    """Run the built-in demo job end to end: PDF report, JSON, CSV and GeoJSON in a folder."""
+    import shutil
+
+    try:
+        from dropcalc.output import write_atomic, write_rows
+        from dropcalc.report.build import build_results, summary_json
+        from dropcalc.resources import data_path
+        from dropcalc.scenario import load_scenario
+
+        source = data_path("templates") / "demo"
+        out.mkdir(parents=True, exist_ok=True)
+        for name in ("scenario.toml", "items.csv"):
+            shutil.copyfile(source / name, out / name)
+        loaded = load_scenario(out / "scenario.toml")
+        results = build_results(loaded, out / "figures", _progress(as_json))
+        pdf = out / "report.pdf"
+        pages = _write_pdf(results, pdf)
+        write_rows(out / "objects.csv", results.rows)
+        summary = summary_json(results, pdf)
+        summary["pages"] = pages
+        files = {"pdf": str(pdf), "objects_csv": str(out / "objects.csv")}
+        for index, data in enumerate(results.geojson, start=1):
+            if data is not None:
+                target = out / f"exclusion-area-{index}.geojson"
+                text = json.dumps(data, indent=1)
+                write_atomic(target, lambda p, t=text: p.write_text(t, encoding="utf-8"))
+                files[f"geojson_{index}"] = str(target)
+        full = {"summary": summary, "objects": results.rows}
+        text = json.dumps(full, indent=2, allow_nan=False)
+        write_atomic(out / "results.json", lambda p: p.write_text(text, encoding="utf-8"))
+        files["results_json"] = str(out / "results.json")
+        summary["files"] = files
+    except DropcalcError as exc:
+        _fail(str(exc))
+        return
+    if as_json:
+        typer.echo(json.dumps(summary, indent=2, allow_nan=False))
+        return
+    typer.echo(_report_lines(summary))
+    typer.echo(f"Demo files in {out}/: " + ", ".join(Path(f).name for f in files.values()))
+
+
 objects_app = typer.Typer(
     help="Browse the object library: list, filter, search, show one object.",
     no_args_is_help=False,
