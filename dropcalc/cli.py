@@ -124,6 +124,9 @@ _OPTION_OF_FIELD = {
     "mode": "--release",
     "rolling": "--rolling",
     "terrain": "--terrain",
+    "relative_error": "--precision",
+    "confidence": "--confidence",
+    "margin": "--margin",
 }
 
 

@@ -1,0 +1,1002 @@
+"""Figures for the PDF report and ``dropcalc fall --plot``: fall paths and energy by height.
+
+:func:`side_view` draws the paths of falling objects seen from the side, height above the
+ground against the distance out from the work edge. :func:`energy_height` draws the impact
+energy of each object against its release height with reference energy levels as labelled
+lines. :func:`fall_figure` is the side view of one ``dropcalc fall`` result.
+
+Colours come from the cividis colour map (sequential, colour-blind safe), one per object;
+everything else is a neutral grey. matplotlib is imported inside the drawing functions only
+(an Agg canvas on a :class:`matplotlib.figure.Figure`, no pyplot state), so importing this
+module costs nothing. Files are written through :func:`dropcalc.output.write_atomic`: an error
+while drawing or writing leaves no partial file.
+
+How the paths are computed
+--------------------------
+The trajectory engine (:func:`dropcalc.physics.trajectory.solve_falls`) returns the state at
+ground contact only. Asking it for intermediate states would take one call per sample time (its
+``max_time`` is one number for all lanes, and a lane stopped by it ends at the end of a step,
+not at ``max_time``), so :func:`trajectory_paths` instead
+
+1. calls ``solve_falls`` once to get each fall's duration T (and whether it landed), then
+2. integrates the same equations of motion,
+
+       dr/dt = v,    dv/dt = -g e_z - k |v - w(z)| (v - w(z)),    w(z) = U_10 ratio(z) e_wind,
+
+   with the classical fixed-step fourth-order Runge-Kutta method from t = 0 to t = T, built
+   from the engine's public pieces (:func:`dropcalc.physics.wind.speed_ratio` and the
+   quadratic drag law above), and samples the states at evenly spaced times.
+
+The end point of the path therefore lands where the engine says (tests/test_figures.py checks
+it within 0.5 %); the path is for drawing only, and every number reported comes from the engine.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Sequence
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import TYPE_CHECKING, Any
+
+import numpy as np
+from numpy.typing import ArrayLike, NDArray
+
+from dropcalc.errors import InputError
+from dropcalc.output import write_atomic
+from dropcalc.physics.constants import STANDARD_GRAVITY
+from dropcalc.physics.trajectory import WindField, solve_falls
+from dropcalc.physics.wind import speed_ratio
+
+if TYPE_CHECKING:
+    from dropcalc.fall import FallResult
+
+FIGURE_FORMATS = (".png", ".svg")
+#: Resolution of PNG files [dots per inch].
+PNG_DPI = 200
+
+#: Steps of the path integrator: at least this many over a fall, at most the second number.
+PATH_STEPS = (800, 6000)
+#: Largest step of the path integrator as a fraction of the fastest drag relaxation time
+#: 1 / (2 k |v - w|); 0.5 keeps RK4 accurate (its stability limit is 2.78).
+PATH_STEP_FRACTION = 0.5
+#: Lanes that would need a longer step than this (in the same units) get the quasi-steady path.
+QUASI_STEADY_STEP_FRACTION = 2.0
+
+#: Number of release heights of an energy curve.
+ENERGY_CURVE_POINTS = 60
+#: Lowest release height of an energy curve. [m]
+ENERGY_CURVE_LOWEST = 0.5
+
+# Palette: cividis positions for the objects (its pale yellow end is avoided: low contrast on
+# white), and neutral greys for everything else.
+CIVIDIS_RANGE = (0.0, 0.78)
+GUST_LIGHTEN = 0.45
+INK = "#2b2b2b"
+STRUCTURE_FILL = "#dedcd8"
+STRUCTURE_EDGE = "#6f6c66"
+GROUND = "#4a4843"
+GRID = "#dcdad6"
+LEVEL_GREY = "#77746d"
+LARGEST_DRAG_DASHES = (0, (5.0, 2.4))
+
+
+# --------------------------------------------------------------------------------------------
+# Paths
+# --------------------------------------------------------------------------------------------
+
+
+def _lanes(*values: ArrayLike) -> tuple[NDArray[np.float64], ...]:
+    arrays = [np.asarray(v, dtype=float) for v in values]
+    shape = np.broadcast_shapes(*(a.shape for a in arrays))
+    if len(shape) > 1:
+        raise ValueError("path parameters must be scalars or 1-D arrays")
+    return tuple(np.broadcast_to(a, shape).reshape(-1).astype(float) for a in arrays)
+
+
+@dataclass(frozen=True)
+class _Air:
+    """Wind and drag of every lane, flattened to arrays of one length."""
+
+    k: NDArray[np.float64]
+    g: NDArray[np.float64]
+    wind_east: NDArray[np.float64]
+    wind_north: NDArray[np.float64]
+    profile: str
+    exponent: NDArray[np.float64]
+    roughness_length: NDArray[np.float64]
+    minimum_height: NDArray[np.float64]
+
+    def ratio(self, height: NDArray[np.float64]) -> NDArray[np.float64]:
+        """Ratio [-] of the wind speed at ``height`` to the speed at 10 m."""
+        return speed_ratio(
+            height, self.profile, self.exponent, self.roughness_length, self.minimum_height
+        )
+
+    def derivative(self, state: NDArray[np.float64]) -> NDArray[np.float64]:
+        """d(state)/dt for state rows x, y, z, vx, vy, vz: dv/dt = -g e_z - k |v - w| (v - w)."""
+        ratio = self.ratio(state[2])
+        rx = state[3] - self.wind_east * ratio
+        ry = state[4] - self.wind_north * ratio
+        rz = state[5]
+        drag = self.k * np.sqrt(rx * rx + ry * ry + rz * rz)
+        return np.stack([state[3], state[4], state[5], -drag * rx, -drag * ry, -self.g - drag * rz])
+
+
+def _rk4(
+    air: _Air, start: NDArray[np.float64], duration: NDArray[np.float64], samples: int, steps: int
+) -> NDArray[np.float64]:
+    """States at ``samples`` even times from 0 to ``duration``; shape (samples, 6, n)."""
+    per_sample = max(1, math.ceil(steps / (samples - 1)))
+    h = duration / ((samples - 1) * per_sample)
+    state = start.copy()
+    out = np.empty((samples, *start.shape))
+    out[0] = state
+    for i in range(1, samples):
+        for _ in range(per_sample):
+            k1 = air.derivative(state)
+            k2 = air.derivative(state + 0.5 * h * k1)
+            k3 = air.derivative(state + 0.5 * h * k2)
+            k4 = air.derivative(state + h * k3)
+            state = state + h / 6.0 * (k1 + 2.0 * k2 + 2.0 * k3 + k4)
+        out[i] = state
+    return out
+
+
+def _quasi_steady(
+    air: _Air,
+    start: NDArray[np.float64],
+    end_height: NDArray[np.float64],
+    samples: int,
+) -> NDArray[np.float64]:
+    """Positions [m] of lanes that relax to terminal motion at once; shape (samples, 3, n).
+
+    When the drag relaxation time 1 / (2 k |v - w|) is tiny beside the fall time, the object
+    moves with the wind and sinks at its terminal speed v_t = sqrt(g / k) after a negligible
+    transient, so dx/dz = -w_x(z) / v_t (and likewise y). Integrated over z by the trapezoidal
+    rule on a grid 20 times finer than the samples.
+    """
+    fine = 20 * (samples - 1) + 1
+    fraction = np.linspace(0.0, 1.0, fine)[:, None]
+    z = start[2] + (end_height - start[2]) * fraction
+    terminal = np.sqrt(air.g / air.k)
+    ratio = air.ratio(z)
+    dz = np.diff(z, axis=0)
+    mean_ratio = 0.5 * (ratio[1:] + ratio[:-1])
+    carried = np.concatenate([np.zeros((1, z.shape[1])), np.cumsum(-mean_ratio * dz, axis=0)])
+    carried /= terminal
+    positions = np.stack(
+        [start[0] + air.wind_east * carried, start[1] + air.wind_north * carried, z], axis=1
+    )
+    return positions[::20]
+
+
+def trajectory_paths(
+    release_height: ArrayLike,
+    initial_velocity: ArrayLike,
+    drag_parameter: ArrayLike,
+    *,
+    gravity: ArrayLike = STANDARD_GRAVITY,
+    wind: WindField | None = None,
+    samples: int = 200,
+    max_distance: float = 20000.0,
+) -> list[NDArray[np.float64]]:
+    """Paths of falls from release to ground contact, for drawing.
+
+    Each fall's duration T comes from one :func:`~dropcalc.physics.trajectory.solve_falls`
+    call; the path is then integrated with fixed-step classical Runge-Kutta (order 4) over
+    [0, T] with the same equations of motion,
+
+        dr/dt = v,    dv/dt = -g e_z - k |v - w(z)| (v - w(z)),
+
+    and sampled at ``samples`` even times. The step is at most half the shortest drag
+    relaxation time 1 / (2 k |v - w|) and at most T / 800. Lanes so stiff that this would need
+    more than 6000 steps (very light objects falling far) are drawn on their quasi-steady path
+    instead: moving with the wind, sinking at terminal speed (exact in the limit of a
+    relaxation time small beside T; their sample times are spread evenly over T).
+
+    Parameters
+    ----------
+    release_height : float or array, shape (n,)
+        Height of the release point above the landing surface, > 0. [m]
+    initial_velocity : array, shape (3,) or (3, n)
+        Ground-frame velocity at release (east, north, up). [m/s]
+    drag_parameter : float or array, shape (n,)
+        k = rho C_d A / (2 m), >= 0. [1/m]
+    gravity : float or array, shape (n,)
+        Acceleration of gravity. [m/s^2]
+    wind : WindField, optional
+        The wind; still air when omitted.
+    samples : int
+        Points per path, >= 2.
+    max_distance : float
+        Falls carried further than this horizontally are stopped there, as in ``solve_falls``
+        (their path ends in the air). [m]
+
+    Returns
+    -------
+    list of numpy.ndarray, each shape (4, samples)
+        One array per fall; rows time [s], east [m], north [m] and height [m], relative to
+        the point on the ground below the release point. The last column is the engine's
+        ground contact (height 0) or, for a fall that did not land, where it was stopped.
+
+    Raises
+    ------
+    ValueError
+        For fewer than 2 samples or shapes that do not broadcast (programming errors).
+
+    References
+    ----------
+    .. [1] Hairer, E., Norsett, S. P. and Wanner, G., *Solving Ordinary Differential Equations
+       I*, 2nd ed. (1993), sec. II.1, Table 1.2 (the classical Runge-Kutta method).
+    """
+    if samples < 2:
+        raise ValueError("samples must be at least 2")
+    wind = wind or WindField()
+    v0 = np.asarray(initial_velocity, dtype=float)
+    if v0.ndim == 1:
+        v0 = v0[:, None]
+    if v0.shape[0] != 3:
+        raise ValueError("initial_velocity must have shape (3,) or (3, n)")
+    solution = solve_falls(
+        release_height,
+        v0,
+        drag_parameter,
+        gravity=gravity,
+        wind=wind,
+        max_distance=max_distance,
+    )
+    (h0, k, g, u10, ex, ey, alpha, z0, zmin, vx0, vy0, vz0) = _lanes(
+        release_height,
+        drag_parameter,
+        gravity,
+        wind.speed_10m,
+        wind.toward_east,
+        wind.toward_north,
+        wind.exponent,
+        wind.roughness_length,
+        wind.minimum_height,
+        v0[0],
+        v0[1],
+        v0[2],
+    )
+    air = _Air(k, g, u10 * ex, u10 * ey, wind.profile, alpha, z0, zmin)
+    start = np.stack([np.zeros_like(h0), np.zeros_like(h0), h0, vx0, vy0, vz0])
+    duration = solution.time
+
+    # Fastest relaxation rate 2 k |v - w| along the fall: the relative speed stays below the
+    # larger of the terminal and the initial relative speed plus the largest wind on the way.
+    apex = h0 + np.maximum(vz0, 0.0) ** 2 / (2.0 * g)
+    wind_top = np.abs(u10) * air.ratio(apex)
+    with np.errstate(divide="ignore"):
+        terminal = np.where(k > 0, np.sqrt(g / np.where(k > 0, k, 1.0)), 0.0)
+    initial_relative = np.sqrt(vx0**2 + vy0**2 + vz0**2) + wind_top
+    rate = 2.0 * k * (np.maximum(terminal, initial_relative) + wind_top)
+    stiffness = rate * duration
+    low, high = PATH_STEPS
+    stiff = stiffness > QUASI_STEADY_STEP_FRACTION * high
+    needed = stiffness[~stiff].max(initial=0.0) / PATH_STEP_FRACTION
+    steps = int(min(max(low, math.ceil(needed)), high))
+
+    positions = np.empty((samples, 3, h0.size))
+    regular = ~stiff
+    if np.any(regular):
+        lane_air = _select(air, regular)
+        states = _rk4(lane_air, start[:, regular], duration[regular], samples, steps)
+        positions[:, :, regular] = states[:, 0:3]
+    if np.any(stiff):
+        lane_air = _select(air, stiff)
+        positions[:, :, stiff] = _quasi_steady(
+            lane_air, start[:, stiff], solution.position[2, stiff], samples
+        )
+    times = np.linspace(0.0, 1.0, samples)[:, None] * duration
+    return [np.vstack([times[:, i], positions[:, :, i].T]) for i in range(h0.size)]
+
+
+def _select(air: _Air, lanes: NDArray[np.bool_]) -> _Air:
+    return _Air(
+        air.k[lanes],
+        air.g[lanes],
+        air.wind_east[lanes],
+        air.wind_north[lanes],
+        air.profile,
+        air.exponent[lanes],
+        air.roughness_length[lanes],
+        air.minimum_height[lanes],
+    )
+
+
+# --------------------------------------------------------------------------------------------
+# Energy against release height
+# --------------------------------------------------------------------------------------------
+
+
+@dataclass(frozen=True)
+class EnergyCurve:
+    """One object of the energy-height figure.
+
+    Attributes
+    ----------
+    label : str
+        Name in the legend.
+    mass : float
+        Mass of the object. [kg]
+    drag_parameter : float
+        k = rho C_d A / (2 m) (use the smallest drag area: the highest energy). [1/m]
+    gravity : float
+        Acceleration of gravity. [m/s^2]
+    wind : WindField or None
+        Wind with scalar values; None for still air.
+    initial_velocity : tuple of 3 floats
+        Ground-frame velocity at release (east, north, up). [m/s]
+    """
+
+    label: str
+    mass: float
+    drag_parameter: float
+    gravity: float = STANDARD_GRAVITY
+    wind: WindField | None = None
+    initial_velocity: tuple[float, float, float] = (0.0, 0.0, 0.0)
+
+
+def energy_curve_heights(max_height: float) -> NDArray[np.float64]:
+    """About :data:`ENERGY_CURVE_POINTS` release heights [m] from 0.5 m to ``max_height``.
+
+    Half evenly spaced, half geometrically spaced (denser low down, where the energy changes
+    fastest on the figure's logarithmic axis).
+    """
+    half = ENERGY_CURVE_POINTS // 2
+    return np.unique(
+        np.concatenate(
+            [
+                np.linspace(ENERGY_CURVE_LOWEST, max_height, half),
+                np.geomspace(ENERGY_CURVE_LOWEST, max_height, ENERGY_CURVE_POINTS - half),
+            ]
+        )
+    )
+
+
+def energy_curve(curve: EnergyCurve, heights: ArrayLike) -> np.ma.MaskedArray:
+    """Impact energy ½ m |v|² of one object released from each height (one engine call).
+
+    Parameters
+    ----------
+    curve : EnergyCurve
+        The object, its drag, the wind and the release velocity.
+    heights : array, shape (n,)
+        Release heights, > 0. [m]
+
+    Returns
+    -------
+    numpy.ma.MaskedArray, shape (n,)
+        Kinetic energy at ground contact [J]; masked where the object did not land (carried
+        away by the wind), so those heights are left out of the drawing.
+    """
+    h = np.asarray(heights, dtype=float)
+    solution = solve_falls(
+        h,
+        np.asarray(curve.initial_velocity, dtype=float),
+        curve.drag_parameter,
+        gravity=curve.gravity,
+        wind=curve.wind,
+    )
+    speed_squared = np.sum(solution.velocity**2, axis=0)
+    energy = 0.5 * curve.mass * speed_squared
+    return np.ma.masked_array(energy, mask=~solution.landed)
+
+
+# --------------------------------------------------------------------------------------------
+# Side view
+# --------------------------------------------------------------------------------------------
+
+
+@dataclass(frozen=True)
+class SideViewCase:
+    """One path of the side view.
+
+    Attributes
+    ----------
+    label : str
+        Object name: paths with the same label share a colour and one legend entry.
+    release_height : float
+        Height of the release point above the ground. [m]
+    initial_velocity : tuple of 3 floats or array, shape (3,)
+        Ground-frame velocity at release (east, north, up). [m/s]
+    drag_parameter : float
+        k = rho C_d A / (2 m). [1/m]
+    gravity : float
+        Acceleration of gravity. [m/s^2]
+    wind : WindField
+        Wind with scalar values (or arrays of length 1).
+    largest_drag : bool
+        The path is for the object's largest drag area (dashed line); False for its smallest
+        or only drag area (solid line).
+    gust : bool
+        The path is in the gust (lighter tone, open landing marker); False for the mean or
+        given wind.
+    edge_azimuth : float
+        Direction the edge faces (away from the structure), clockwise from north; the
+        horizontal axis is the distance along it. [deg]
+    """
+
+    label: str
+    release_height: float
+    initial_velocity: Any
+    drag_parameter: float
+    gravity: float = STANDARD_GRAVITY
+    wind: WindField = field(default_factory=WindField)
+    largest_drag: bool = False
+    gust: bool = False
+    edge_azimuth: float = 90.0
+
+
+def _figure_format(path: Path, what: str) -> str:
+    suffix = path.suffix.lower()
+    if suffix not in FIGURE_FORMATS:
+        raise InputError(f"{what} file must end in {', '.join(FIGURE_FORMATS)}; got {path.name}")
+    return suffix.lstrip(".")
+
+
+def _save(figure: Any, path: Path, image_format: str) -> None:
+    """Write the figure atomically (PNG at :data:`PNG_DPI`, SVG without a date stamp)."""
+    metadata = {"Date": None} if image_format == "svg" else None
+
+    def write(temporary: Path) -> None:
+        figure.savefig(temporary, format=image_format, dpi=PNG_DPI, metadata=metadata)
+
+    write_atomic(path, write)
+
+
+def _object_colours(labels: Sequence[str]) -> dict[str, Any]:
+    """One cividis colour per distinct label, spread over :data:`CIVIDIS_RANGE`."""
+    import matplotlib
+
+    cividis = matplotlib.colormaps["cividis"]
+    distinct = list(dict.fromkeys(labels))
+    low, high = CIVIDIS_RANGE
+    if len(distinct) == 1:
+        return {distinct[0]: cividis(0.12)}
+    positions = np.linspace(low, high, len(distinct))
+    return {label: cividis(p) for label, p in zip(distinct, positions, strict=True)}
+
+
+def _lighter(colour: Any, amount: float) -> tuple[float, float, float]:
+    red, green, blue = colour[:3]
+    return (
+        red + (1 - red) * amount,
+        green + (1 - green) * amount,
+        blue + (1 - blue) * amount,
+    )
+
+
+def _speed_text(wind: WindField) -> str:
+    speed = float(np.ravel(np.asarray(wind.speed_10m, dtype=float))[0])
+    return f"{speed:.3g} m/s at 10 m"
+
+
+def _wind_kind_label(cases: Sequence[SideViewCase], gust: bool) -> str:
+    chosen = [c for c in cases if c.gust == gust]
+    speeds = {_speed_text(c.wind) for c in chosen}
+    name = "gust" if gust else "mean wind"
+    if not gust and all(
+        float(np.ravel(np.asarray(c.wind.speed_10m, dtype=float))[0]) == 0.0 for c in chosen
+    ):
+        return "still air"
+    return f"{name}, {speeds.pop()}" if len(speeds) == 1 else name
+
+
+def side_view(
+    path: Path,
+    cases: list[SideViewCase],
+    height: float,
+    title: str = "",
+    max_distance: float = 20000.0,
+) -> None:
+    """Draw fall paths seen from the side and write them as PNG or SVG.
+
+    Height above the ground against the horizontal distance out from the edge (the component
+    of the path along the edge's outward direction). The structure is a grey band at x <= 0 up
+    to ``height``; landing points are marked. Colour: the object (cividis); line style: drag
+    bound (solid smallest C_d·A, dashed largest); tone and marker: mean wind (full tone,
+    filled marker) or gust (lighter tone, open marker).
+
+    Parameters
+    ----------
+    path : pathlib.Path
+        Output file; the suffix (.png or .svg) chooses the format.
+    cases : list of SideViewCase
+        The paths to draw.
+    height : float
+        Height of the work edge, to draw the structure. [m]
+    title : str
+        Title above the plot; a plain default when empty.
+    max_distance : float
+        Falls carried further than this are drawn up to there, marked as not landed. [m]
+
+    Raises
+    ------
+    InputError
+        If the suffix is not .png or .svg, there is no case, ``height`` is not a finite
+        positive length, or the folder cannot be written.
+    """
+    path = Path(path)
+    image_format = _figure_format(path, "side view")
+    if not cases:
+        raise InputError("side view needs at least one fall to draw; got none")
+    if not (math.isfinite(height) and height > 0):
+        raise InputError(f"height must be a finite length > 0 m; got {height:g} m")
+
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+    from matplotlib.figure import Figure
+    from matplotlib.lines import Line2D
+
+    drawn = []
+    for case in cases:
+        (track,) = trajectory_paths(
+            case.release_height,
+            np.asarray(case.initial_velocity, dtype=float),
+            case.drag_parameter,
+            gravity=case.gravity,
+            wind=case.wind,
+            max_distance=max_distance,
+        )
+        azimuth = math.radians(case.edge_azimuth)
+        out = track[1] * math.sin(azimuth) + track[2] * math.cos(azimuth)
+        drawn.append((case, out, track[3]))
+
+    colours = _object_colours([c.label for c in cases])
+    figure = Figure(figsize=(8.6, 5.2), dpi=100)
+    FigureCanvasAgg(figure)
+    axes = figure.add_axes((0.085, 0.11, 0.57, 0.74))
+
+    x_low = min(0.0, *(float(out.min()) for _, out, _ in drawn))
+    x_high = max(0.0, *(float(out.max()) for _, out, _ in drawn))
+    top = max(height, *(float(z.max()) for _, _, z in drawn))
+    # At least a third of the height across, so a near-vertical fall is not a sliver.
+    span = max(x_high - x_low, 0.35 * top)
+    left = x_low - 0.14 * span
+    right = max(x_high + 0.06 * (x_high - x_low), x_low + 1.06 * span)
+    axes.set_xlim(left, right)
+    axes.set_ylim(-0.035 * top, 1.08 * top)
+
+    axes.fill_between(
+        [left, 0.0], 0.0, height, facecolor=STRUCTURE_FILL, edgecolor="none", zorder=1
+    )
+    axes.plot([0.0, 0.0], [0.0, height], color=STRUCTURE_EDGE, lw=1.4, zorder=2)
+    axes.plot([left, 0.0], [height, height], color=STRUCTURE_EDGE, lw=1.4, zorder=2)
+    axes.text(
+        0.5 * left,
+        0.5 * height,
+        "structure",
+        rotation=90,
+        ha="center",
+        va="center",
+        fontsize=8.5,
+        color=STRUCTURE_EDGE,
+        zorder=2,
+    )
+    axes.axhline(0.0, color=GROUND, lw=1.6, zorder=2)
+    axes.axhspan(-0.035 * top, 0.0, facecolor="#efeeeb", edgecolor="none", zorder=0)
+
+    farthest = None
+    not_landed = False
+    for case, out, z in drawn:
+        colour = colours[case.label]
+        tone = _lighter(colour, GUST_LIGHTEN) if case.gust else colour
+        axes.plot(
+            out,
+            z,
+            color=tone,
+            lw=1.9,
+            linestyle=LARGEST_DRAG_DASHES if case.largest_drag else "solid",
+            zorder=4 if not case.gust else 3,
+            solid_capstyle="round",
+        )
+        landed = abs(float(z[-1])) <= 1e-6 * max(case.release_height, 1.0)
+        if landed:
+            axes.plot(
+                out[-1],
+                0.0,
+                marker="D" if case.gust else "o",
+                markersize=6.5 if case.gust else 6.0,
+                markerfacecolor="white" if case.gust else colour,
+                markeredgecolor=colour,
+                markeredgewidth=1.5,
+                linestyle="none",
+                zorder=6,
+                clip_on=False,
+            )
+            if farthest is None or out[-1] > farthest:
+                farthest = float(out[-1])
+        else:
+            not_landed = True
+            axes.plot(out[-1], z[-1], marker="x", color=colour, markersize=7, zorder=6)
+
+    axes.grid(True, color=GRID, lw=0.6)
+    axes.set_axisbelow(True)
+    axes.set_xlabel("horizontal distance out from the edge (m)", fontsize=9.5, color=INK)
+    axes.set_ylabel("height above ground (m)", fontsize=9.5, color=INK)
+    axes.tick_params(labelsize=8.5, colors=INK)
+    for spine in axes.spines.values():
+        spine.set_color("#9a978f")
+
+    figure.text(
+        0.085,
+        0.93,
+        title or "Fall paths seen from the side",
+        fontsize=12.5,
+        weight="bold",
+        color=INK,
+        ha="left",
+    )
+    if farthest is not None:
+        figure.text(
+            0.085,
+            0.885,
+            f"farthest landing point: {farthest:.1f} m out from the edge",
+            fontsize=9.5,
+            color=INK,
+            ha="left",
+        )
+
+    # Key in sections: colour = object; line style = drag bound; tone and marker = wind.
+    grey = "#4f4d48"
+    sections: list[tuple[str, list[Any]]] = [
+        (
+            "Object",
+            [Line2D([], [], color=c, lw=2.6, label=label) for label, c in colours.items()],
+        )
+    ]
+    if len({c.largest_drag for c in cases}) > 1:
+        sections.append(
+            (
+                "Drag area C_d·A",
+                [
+                    Line2D([], [], color=grey, lw=1.9, label="smallest"),
+                    Line2D(
+                        [], [], color=grey, lw=1.9, linestyle=LARGEST_DRAG_DASHES, label="largest"
+                    ),
+                ],
+            )
+        )
+    wind_handles = [
+        Line2D(
+            [],
+            [],
+            color=_lighter(_to_rgb(grey), GUST_LIGHTEN) if gust else grey,
+            lw=1.9,
+            marker="D" if gust else "o",
+            markersize=6.5 if gust else 6.0,
+            markerfacecolor="white" if gust else grey,
+            markeredgecolor=grey,
+            markeredgewidth=1.4,
+            label=_wind_kind_label(cases, gust),
+        )
+        for gust in sorted({c.gust for c in cases})
+    ]
+    if not_landed:
+        wind_handles.append(
+            Line2D([], [], color=grey, marker="x", linestyle="none", label="still airborne")
+        )
+    sections.append(("Wind (marker: landing point)", wind_handles))
+    handles: list[Any] = []
+    headers: list[int] = []
+    for header, entries in sections:
+        headers.append(len(handles))
+        handles.append(Line2D([], [], linestyle="none", label=header))
+        handles += entries
+    legend = figure.legend(
+        handles=handles,
+        loc="upper left",
+        bbox_to_anchor=(0.685, 0.86),
+        frameon=False,
+        fontsize=8.5,
+        labelspacing=0.75,
+        handlelength=2.8,
+        alignment="left",
+    )
+    for i in headers:
+        legend.get_texts()[i].set_fontweight("bold")
+        legend.get_texts()[i].set_fontsize(9)
+    _save(figure, path, image_format)
+
+
+def _to_rgb(colour: str) -> tuple[float, float, float]:
+    from matplotlib.colors import to_rgb
+
+    return to_rgb(colour)
+
+
+# --------------------------------------------------------------------------------------------
+# Energy-height figure
+# --------------------------------------------------------------------------------------------
+
+
+def _level_text(label: str, value: float) -> str:
+    value_text = f"{value:g} J"
+    return label if value_text in label else f"{label}: {value_text}"
+
+
+def _spread(positions: Sequence[float], gap: float, low: float, high: float) -> list[float]:
+    """Move sorted positions at least ``gap`` apart, each group centred where it wants to be.
+
+    Overlapping labels are merged into groups laid out evenly about the mean of their wanted
+    positions (so a cluster spreads both ways, not only upwards); the whole set is then
+    shifted to stay within [low, high].
+    """
+    groups: list[list[float]] = []  # each: [sum of wanted positions, count]
+    for position in positions:
+        groups.append([position, 1.0])
+        while len(groups) > 1:
+            (sum_a, n_a), (sum_b, n_b) = groups[-2], groups[-1]
+            top_a = sum_a / n_a + (n_a - 1) * gap / 2
+            bottom_b = sum_b / n_b - (n_b - 1) * gap / 2
+            if bottom_b - top_a >= gap:
+                break
+            groups[-2:] = [[sum_a + sum_b, n_a + n_b]]
+    placed: list[float] = []
+    for total, count in groups:
+        centre = total / count
+        placed += [centre + (j - (count - 1) / 2) * gap for j in range(int(count))]
+    if placed and placed[-1] > high:
+        placed = [min(p, high - (len(placed) - 1 - i) * gap) for i, p in enumerate(placed)]
+    if placed and placed[0] < low:
+        placed = [max(p, low + i * gap) for i, p in enumerate(placed)]
+    return placed
+
+
+def energy_height(
+    path: Path,
+    objects: list[EnergyCurve],
+    levels: list[tuple[str, float]],
+    max_height: float,
+    title: str = "",
+) -> None:
+    """Draw impact energy against release height per object and write it as PNG or SVG.
+
+    Each object's curve is one engine call over :data:`ENERGY_CURVE_POINTS` release heights
+    from 0.5 m to ``max_height``; heights from which it is carried away are left out. Energy
+    is on a logarithmic axis. Each reference level is a grey dashed line labelled at its right
+    end with what it is and its value; labels of close levels are moved apart and tied to
+    their line by a short leader.
+
+    Parameters
+    ----------
+    path : pathlib.Path
+        Output file; the suffix (.png or .svg) chooses the format.
+    objects : list of EnergyCurve
+        The objects.
+    levels : list of (str, float)
+        Reference levels: what each is, and its energy [J].
+    max_height : float
+        Highest release height drawn, > 0.5 m. [m]
+    title : str
+        Title above the plot; a plain default when empty.
+
+    Raises
+    ------
+    InputError
+        If the suffix is not .png or .svg, there is no object, ``max_height`` is not above
+        0.5 m, a level is not finite and positive, or the folder cannot be written.
+    """
+    path = Path(path)
+    image_format = _figure_format(path, "energy figure")
+    if not objects:
+        raise InputError("energy figure needs at least one object; got none")
+    if not (math.isfinite(max_height) and max_height > ENERGY_CURVE_LOWEST):
+        raise InputError(
+            f"max_height must be a finite length above {ENERGY_CURVE_LOWEST:g} m; "
+            f"got {max_height:g} m"
+        )
+    for label, value in levels:
+        if not (math.isfinite(value) and value > 0):
+            raise InputError(
+                f"reference level {label!r} must be a finite energy > 0 J; got {value}"
+            )
+
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+    from matplotlib.figure import Figure
+    from matplotlib.ticker import FuncFormatter, LogLocator, NullFormatter
+
+    heights = energy_curve_heights(max_height)
+    curves = [(curve, energy_curve(curve, heights)) for curve in objects]
+    colours = _object_colours([c.label for c in objects])
+
+    rows = math.ceil(len(objects) / min(len(objects), 3))
+    figure = Figure(figsize=(8.6, 5.6 + 0.22 * rows), dpi=100)
+    FigureCanvasAgg(figure)
+    legend_height = (0.05 + 0.26 * (rows + 1)) / (5.6 + 0.22 * rows)
+    axes = figure.add_axes((0.10, 0.10, 0.86, 0.80 - legend_height))
+    axes.set_yscale("log")
+
+    values = [float(e.min()) for _, e in curves if e.count()]
+    values += [float(e.max()) for _, e in curves if e.count()]
+    values += [value for _, value in levels]
+    bottom = min(values) / 1.8
+    top = max(values) * 2.2
+    axes.set_xlim(0.0, max_height * 1.01)
+    axes.set_ylim(bottom, top)
+
+    for curve, energy in curves:
+        label = curve.label
+        if energy.count() < energy.size:
+            first = heights[np.argmax(np.ma.getmaskarray(energy))]
+            label += f" (carried away from {first:.3g} m)"
+        axes.plot(heights, energy, color=colours[curve.label], lw=2.2, label=label, zorder=4)
+
+    # Reference levels: a line each, the label at the right end, spread apart if close.
+    if levels:
+        axes_height_pt = axes.get_position().height * figure.get_figheight() * 72.0
+        font = 7.5
+        gap = 1.75 * font / axes_height_pt
+        span = math.log(top / bottom)
+        ordered = sorted(levels, key=lambda level: level[1])
+        fractions = [math.log(value / bottom) / span for _, value in ordered]
+        placed = _spread(fractions, gap, 0.5 * gap, 1.0 - 0.5 * gap)
+        for (label, value), line_at, text_at in zip(ordered, fractions, placed, strict=True):
+            axes.plot(
+                [0.0, 0.955],
+                [line_at, line_at],
+                transform=axes.transAxes,
+                color=LEVEL_GREY,
+                lw=1.0,
+                linestyle=(0, (4.0, 3.0)),
+                zorder=2,
+            )
+            # Leader from the label to the end of its line.
+            axes.plot(
+                [0.937, 0.962, 1.0],
+                [text_at, line_at, line_at],
+                transform=axes.transAxes,
+                color=LEVEL_GREY,
+                lw=0.9,
+                zorder=5,
+            )
+            axes.text(
+                0.933,
+                text_at,
+                _level_text(label, value),
+                transform=axes.transAxes,
+                ha="right",
+                va="center",
+                fontsize=font,
+                color=INK,
+                zorder=5,
+                bbox={
+                    "boxstyle": "square,pad=0.15",
+                    "facecolor": "white",
+                    "edgecolor": "none",
+                    "alpha": 0.82,
+                },
+            )
+
+    axes.yaxis.set_major_locator(LogLocator(base=10.0, subs=(1.0, 2.0, 5.0)))
+    axes.yaxis.set_major_formatter(FuncFormatter(lambda value, _: f"{value:g}"))
+    axes.yaxis.set_minor_formatter(NullFormatter())
+    axes.grid(True, which="major", color=GRID, lw=0.6)
+    axes.set_axisbelow(True)
+    axes.set_xlabel("release height above the ground (m)", fontsize=9.5, color=INK)
+    axes.set_ylabel("impact energy (J, logarithmic scale)", fontsize=9.5, color=INK)
+    axes.tick_params(labelsize=8.5, colors=INK)
+    for spine in axes.spines.values():
+        spine.set_color("#9a978f")
+    columns = min(len(objects), 3)
+    figure.legend(
+        handles=axes.get_lines()[: len(objects)],
+        loc="upper left",
+        bbox_to_anchor=(0.10, 0.905),
+        ncols=columns,
+        fontsize=8.5,
+        frameon=False,
+        handlelength=2.4,
+        columnspacing=2.0,
+        title="Object (at its smallest drag area, the highest energy)",
+        title_fontproperties={"weight": "bold", "size": 9},
+        alignment="left",
+    )
+    figure.text(
+        0.10,
+        0.935,
+        title or "Impact energy against release height",
+        fontsize=12.5,
+        weight="bold",
+        color=INK,
+        ha="left",
+    )
+    _save(figure, path, image_format)
+
+
+# --------------------------------------------------------------------------------------------
+# dropcalc fall --plot
+# --------------------------------------------------------------------------------------------
+
+
+def fall_cases(result: FallResult) -> list[SideViewCase]:
+    """Side-view cases of one ``dropcalc fall`` result.
+
+    Both drag bounds when the case has a largest drag area, the given wind and its gust when
+    one was estimated, with the release velocity of the case's release mode.
+
+    Parameters
+    ----------
+    result : dropcalc.fall.FallResult
+        The solved fall.
+
+    Returns
+    -------
+    list of SideViewCase
+        Smallest drag area first, the given wind before the gust.
+    """
+    from dropcalc.fall import wind_field
+    from dropcalc.physics.drag import drag_parameter
+    from dropcalc.physics.release import initial_velocity
+
+    case = result.case
+    label = case.object_name or case.object_id or f"object, {case.mass:g} kg"
+    velocity = np.asarray(
+        initial_velocity(case.release, case.edge_azimuth, case.gravity), dtype=float
+    ).reshape(3)
+    winds = [(result.given.speed_10m, False)]
+    if result.gust is not None:
+        winds.append((result.gust.speed_10m, True))
+    areas = [(case.drag_area, False)]
+    if case.drag_area_max is not None and case.drag_area_max > case.drag_area:
+        areas.append((case.drag_area_max, True))
+    cases = []
+    for area, largest in areas:
+        k = float(drag_parameter(case.air.density, area, case.mass))
+        for speed, gust in winds:
+            cases.append(
+                SideViewCase(
+                    label=label,
+                    release_height=case.height,
+                    initial_velocity=tuple(velocity),
+                    drag_parameter=k,
+                    gravity=case.gravity,
+                    wind=wind_field(case.wind, np.array([speed])),
+                    largest_drag=largest,
+                    gust=gust,
+                    edge_azimuth=case.edge_azimuth,
+                )
+            )
+    return cases
+
+
+def fall_figure(path: Path, result: FallResult) -> None:
+    """Write the side view of one ``dropcalc fall`` result (PNG or SVG by the suffix).
+
+    Parameters
+    ----------
+    path : pathlib.Path
+        Output file.
+    result : dropcalc.fall.FallResult
+        The solved fall.
+
+    Raises
+    ------
+    InputError
+        If the suffix is not .png or .svg or the folder cannot be written.
+    """
+    from dropcalc.fall import CARRIED_AWAY_DISTANCE
+
+    case = result.case
+    label = case.object_name or case.object_id or f"object, {case.mass:g} kg"
+    side_view(
+        path,
+        fall_cases(result),
+        case.height,
+        title=f"Fall paths from {case.height:g} m: {label}",
+        max_distance=CARRIED_AWAY_DISTANCE,
+    )
+
+
+__all__: list[str] = [
+    "EnergyCurve",
+    "SideViewCase",
+    "energy_curve",
+    "energy_height",
+    "fall_cases",
+    "fall_figure",
+    "side_view",
+    "trajectory_paths",
+]

@@ -1,0 +1,282 @@
+"""Tests of ``dropcalc zone``: JSON contract, statement in words, options, site files, bad input.
+
+Check values come from outside the code under test: the DESIGN.md JSON contract; vacuum
+kinematics (a dense object dropped in still air lands below the release point with no
+horizontal speed, so nothing carries it out: the radius is the margin alone); the definition of
+the international foot (0.3048 m exactly, International Yard and Pound Agreement, 1959); the PNG
+signature (PNG specification, ISO/IEC 15948:2004, sec. 5.2) and the GeoJSON FeatureCollection
+(RFC 7946, sec. 3.3).
+"""
+
+from __future__ import annotations
+
+import json
+import re
+from pathlib import Path
+from typing import Any
+
+import pytest
+from typer.testing import CliRunner
+
+from dropcalc.cli import app
+from dropcalc.zone import ENVELOPE_SEARCH_ALLOWANCE
+
+# JSON contract fields, DESIGN.md "JSON contract": never renamed.
+CONTRACT_FIELDS = (
+    "radius_m",
+    "confidence",
+    "drift_m",
+    "scatter_m",
+    "margin_m",
+    "worst_case_radius_m",
+)
+
+runner = CliRunner()
+
+BRICK = ("--object", "brick-uk-standard")
+SPANNER = ("--object", "combination-spanner-19mm")
+# 10 kg with a drag area of 1e-7 m^2: k = rho Cd A / (2 m) ~ 6e-9 1/m, vacuum kinematics.
+DENSE = ("--mass", "10 kg", "--drag-area", "1e-7 m2")
+
+SITE = """\
+origin = { lat = 51.5, lon = -0.14 }
+outline = [[0, 0], [20, 0], [20, 10], [0, 10]]
+
+[[edge]]
+name = "north parapet"
+points = [[0, 10], [20, 10]]
+height = "12 m"
+
+[[edge]]
+name = "east side"
+points = [[20, 10], [20, 0]]
+height = "9 m"
+"""
+
+
+def _reject_constant(name: str) -> None:
+    raise AssertionError(f"JSON output contains the non-standard constant {name}")
+
+
+def invoke(*args: str, columns: int = 100) -> Any:
+    """Run ``dropcalc zone ARGS`` in-process; stdout and stderr stay separate on the result."""
+    env = {"COLUMNS": str(columns), "FORCE_COLOR": None, "TERM": "dumb"}
+    return runner.invoke(app, ["zone", *args], env=env)
+
+
+def zone_json(*args: str) -> dict[str, Any]:
+    """Run ``dropcalc zone ARGS --json``; check exit 0 and that stdout is one JSON object only."""
+    result = invoke(*args, "--json")
+    assert result.exit_code == 0, result.output
+    # json.loads refuses trailing text, so stdout holds exactly one JSON value; NaN and
+    # Infinity are refused by parse_constant.
+    data = json.loads(result.stdout, parse_constant=_reject_constant)
+    assert isinstance(data, dict), result.stdout
+    return data
+
+
+def _flat(text: str) -> str:
+    """The text with every run of whitespace made one space (the output wraps at 90)."""
+    return " ".join(text.split())
+
+
+# --- JSON contract ---------------------------------------------------------------------------
+
+CASES = {
+    "brick-still-air": ("--height", "18 m", *BRICK),
+    "spanner-push-in-wind": (
+        "--height", "15 m", *SPANNER, "--wind", "8 m/s", "--release", "push",
+        "--release-speed", "2 m/s",
+    ),
+    "custom-min-max-on-grass": (
+        "--height", "10 m", "--mass", "0.5 kg", "--drag-area", "0.002,0.02", "--ground",
+        "grass", "--wind", "12 m/s", "--wind-kind", "gust", "--margin", "1.5 m",
+    ),
+    "two-objects": ("--height", "18 m", *BRICK, *SPANNER, "--wind", "5 m/s"),
+}  # fmt: skip
+
+
+@pytest.mark.parametrize("args", CASES.values(), ids=CASES.keys())
+def test_json_is_one_object_with_the_contract_fields(args: tuple[str, ...]) -> None:
+    data = zone_json(*args)
+    for name in CONTRACT_FIELDS:
+        assert isinstance(data.get(name), int | float), (name, data.get(name))
+    assert data["radius_m"] == pytest.approx(
+        data["drift_m"] + data["scatter_m"] + data["margin_m"], abs=1e-9
+    )
+    assert data["radius_m"] <= data["worst_case_radius_m"]
+    assert data["confidence"] == 0.99
+
+
+def test_dense_drop_in_still_air_needs_only_the_margin() -> None:
+    # Vacuum kinematics: released at rest with no wind, it lands straight below with no
+    # horizontal speed; nothing slides or hops outward.
+    data = zone_json("--height", "20 m", *DENSE, "--margin", "2 m")
+    assert data["drift_m"] == pytest.approx(0.0, abs=1e-6)
+    assert data["scatter_m"] == pytest.approx(0.0, abs=1e-6)
+    assert data["radius_m"] == pytest.approx(2.0, abs=1e-6)
+    # The envelope adds its documented grid-search allowance (1 mm).
+    assert data["worst_case_radius_m"] == pytest.approx(2.0 + ENVELOPE_SEARCH_ALLOWANCE, abs=1e-6)
+
+
+def test_margin_accepts_units() -> None:
+    # 1 ft = 0.3048 m exactly (International Yard and Pound Agreement, 1959).
+    data = zone_json("--height", "20 m", *DENSE, "--margin", "10 ft")
+    assert data["margin_m"] == pytest.approx(3.048, abs=1e-9)
+    assert data["radius_m"] == pytest.approx(3.048, abs=1e-6)
+
+
+def test_higher_confidence_gives_a_radius_at_least_as_wide() -> None:
+    args = ("--height", "15 m", *SPANNER, "--wind", "8 m/s")
+    at_99 = zone_json(*args, "--confidence", "0.99")
+    at_999 = zone_json(*args, "--confidence", "0.999")
+    assert at_999["confidence"] == 0.999
+    assert at_999["radius_m"] >= at_99["radius_m"]
+
+
+def test_same_seed_same_answer_and_the_seed_is_reported() -> None:
+    args = ("--height", "15 m", *SPANNER, "--wind", "8 m/s", "--seed", "42")
+    first, second = zone_json(*args), zone_json(*args)
+    assert first["seed"] == 42
+    assert first["radius_m"] == second["radius_m"]
+
+
+def test_barricade_adds_its_fields_and_they_hold_when_rerun() -> None:
+    base = ("--height", "12 m", *SPANNER)
+    data = zone_json(*base, "--barricade", "15 m")
+    assert data["barricade_m"] == pytest.approx(15.0)
+    wind = data["barricade_highest_wind_m_s"]
+    height = data["barricade_greatest_height_m"]
+    assert wind > 0
+    assert height > 0
+    # The zone in the reported wind stays within the barricade (the mean wind is the one
+    # reported), and so does the zone at the reported height in the day's wind.
+    assert zone_json(*base, "--wind", f"{wind!r} m/s")["radius_m"] <= 15.0
+    assert zone_json("--height", f"{height!r} m", *SPANNER)["radius_m"] <= 15.0
+
+
+# --- Human output ----------------------------------------------------------------------------
+
+
+def test_human_output_states_the_share_the_driver_the_margin_and_the_cautions() -> None:
+    result = invoke("--height", "18 m", *BRICK, *SPANNER, "--wind", "8 m/s")
+    assert result.exit_code == 0, result.output
+    text = _flat(result.stdout)
+    data = zone_json("--height", "18 m", *BRICK, *SPANNER, "--wind", "8 m/s")
+    assert "99 % of simulated drops" in text
+    assert f"of the {data['driving_object']} came to rest" in text
+    assert re.search(r"plus a [\d.]+ m margin", text), text
+    assert "competent person" in text
+    assert "Not modelled: deflection off the structure" in text
+
+
+def test_human_output_names_the_barricade() -> None:
+    result = invoke("--height", "12 m", *SPANNER, "--barricade", "15 m")
+    assert result.exit_code == 0, result.output
+    assert "Barricade at 15" in _flat(result.stdout)
+
+
+# --- Site plan -------------------------------------------------------------------------------
+
+
+def test_site_writes_the_plan_drawing_and_the_geojson(tmp_path: Path) -> None:
+    site = tmp_path / "site.toml"
+    site.write_text(SITE, encoding="utf-8")
+    plot, geojson = tmp_path / "plan.png", tmp_path / "area.geojson"
+    result = invoke(
+        "--site", str(site), *SPANNER, "--wind", "8 m/s", "--plot", str(plot),
+        "--geojson", str(geojson), "--json",
+    )  # fmt: skip
+    assert result.exit_code == 0, result.output
+    data = json.loads(result.stdout)
+    for name in CONTRACT_FIELDS:
+        assert name in data
+    # PNG signature: ISO/IEC 15948:2004, sec. 5.2.
+    assert plot.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
+    collection = json.loads(geojson.read_text(encoding="utf-8"))
+    assert collection["type"] == "FeatureCollection"  # RFC 7946, sec. 3.3
+    kinds = [feature["properties"]["kind"] for feature in collection["features"]]
+    assert kinds.count("exclusion_area") == 1
+    assert kinds.count("work_edge") == 2
+    area = collection["features"][kinds.index("exclusion_area")]
+    assert area["geometry"]["type"] in ("Polygon", "MultiPolygon")
+
+
+# --- Bad input -------------------------------------------------------------------------------
+
+NO_ORIGIN = """\
+outline = [[0, 0], [20, 0], [20, 10], [0, 10]]
+[[edge]]
+name = "north"
+points = [[0, 10], [20, 10]]
+height = "12 m"
+"""
+NO_HEIGHT = """\
+[[edge]]
+name = "north"
+points = [[0, 10], [20, 10]]
+"""
+BAD_TOML = "outline = [[0, 0],\n[[edge]\n"
+
+# (arguments, site file text or None, words the message must contain)
+BAD_INPUTS = {
+    "no-objects": (("--height", "18 m"), None, ("--object",)),
+    "unknown-object": (("--height", "18 m", "--object", "nosuch-thing"), None, ("nosuch-thing",)),
+    "negative-height": (("--height", "-5 m", *BRICK), None, ("height", "-5")),
+    "confidence-1.5": (("--height", "18 m", *BRICK, "--confidence", "1.5"), None, ("1.5",)),
+    "unknown-ground": (("--height", "18 m", *BRICK, "--ground", "moon"), None, ("moon",)),
+    "plot-without-site": (("--height", "18 m", *BRICK, "--plot", "p.png"), None, ("--site",)),
+    "geojson-without-origin": (
+        ("--object", "brick-uk-standard", "--geojson", "area.geojson"), NO_ORIGIN, ("origin",),
+    ),
+    "site-edge-without-height": ((*BRICK,), NO_HEIGHT, ("height",)),
+    "site-bad-toml": ((*BRICK,), BAD_TOML, ("TOML",)),
+    "no-height-no-site": ((*BRICK,), None, ("--height",)),
+    "mass-without-drag-area": (("--height", "18 m", "--mass", "1 kg"), None, ("--drag-area",)),
+    "negative-margin": (("--height", "18 m", *BRICK, "--margin", "-1 m"), None, ("margin",)),
+    "negative-barricade": (("--height", "18 m", *BRICK, "--barricade", "-3 m"), None, ("-3",)),
+}  # fmt: skip
+
+
+def _run_bad(args: tuple[str, ...], site_text: str | None, tmp_path: Path) -> Any:
+    if site_text is not None:
+        site = tmp_path / "site.toml"
+        site.write_text(site_text, encoding="utf-8")
+        args = ("--site", str(site), *args)
+    return invoke(*args, "--json", columns=80)
+
+
+@pytest.mark.parametrize(("args", "site_text", "words"), BAD_INPUTS.values(), ids=BAD_INPUTS.keys())
+def test_bad_input_is_one_line_exit_2_no_traceback(
+    args: tuple[str, ...], site_text: str | None, words: tuple[str, ...], tmp_path: Path
+) -> None:
+    result = _run_bad(args, site_text, tmp_path)
+    assert result.exit_code == 2, result.output
+    assert "Traceback" not in result.output
+    assert result.stdout == "", result.stdout
+    lines = [line for line in result.stderr.splitlines() if line.strip()]
+    assert len(lines) == 1, result.stderr
+    assert lines[0].startswith("dropcalc: error: "), lines[0]
+    for word in words:
+        assert word.lower() in lines[0].lower(), (word, lines[0])
+
+
+def test_bad_input_writes_no_files(tmp_path: Path) -> None:
+    site = tmp_path / "site.toml"
+    site.write_text(SITE, encoding="utf-8")
+    plot, geojson = tmp_path / "plan.png", tmp_path / "area.geojson"
+    result = invoke(
+        "--site", str(site), *BRICK, "--ground", "moon", "--plot", str(plot),
+        "--geojson", str(geojson),
+    )  # fmt: skip
+    assert result.exit_code == 2, result.output
+    assert not plot.exists()
+    assert not geojson.exists()
+
+
+def test_bad_precision_names_the_option() -> None:
+    result = invoke("--height", "18 m", *BRICK, "--precision", "5", columns=80)
+    assert result.exit_code == 2, result.output
+    (line,) = [line for line in result.stderr.splitlines() if line.strip()]
+    assert "--precision" in line, line
+    assert "5" in line, line

@@ -1,0 +1,354 @@
+"""Tests of the report figures: fall paths, energy curves and the files written.
+
+Check values come from outside the code under test: the closed forms of a vertical fall with
+quadratic drag (Timmerman, P. and van der Weele, J. P., "On the rise and fall of a ball with
+linear or quadratic drag", Am. J. Phys. 67 (1999) 538-546), the PNG signature (ISO/IEC
+15948:2004 / W3C PNG 2nd ed., sec. 5.2) and the SVG root element (W3C SVG 1.1, sec. 5.1). The
+drawn paths are also checked against the trajectory engine's landing points, which is the
+purpose of the path integrator (the engine is tested on its own against DOP853 and closed forms).
+"""
+
+from __future__ import annotations
+
+import math
+import xml.etree.ElementTree as ElementTree
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+from dropcalc.errors import InputError
+from dropcalc.fall import FallCase, solve_fall
+from dropcalc.physics.release import Release
+from dropcalc.physics.trajectory import WindField, solve_falls
+from dropcalc.physics.wind import wind_spec
+from dropcalc.report import figures
+from dropcalc.report.figures import (
+    EnergyCurve,
+    SideViewCase,
+    energy_curve,
+    energy_height,
+    fall_cases,
+    fall_figure,
+    side_view,
+    trajectory_paths,
+)
+
+# Standard acceleration of gravity [m/s^2]. 3rd CGPM (1901), Comptes rendus p. 70.
+G = 9.80665
+# PNG file signature: W3C "Portable Network Graphics (PNG) Specification (Second Edition)"
+# (ISO/IEC 15948:2004), sec. 5.2.
+PNG_SIGNATURE = b"\x89PNG\r\n\x1a\n"
+# SVG namespace: W3C "Scalable Vector Graphics (SVG) 1.1 (Second Edition)", sec. 5.1.2.
+SVG_NAMESPACE = "http://www.w3.org/2000/svg"
+
+SHEARED_WIND = WindField(
+    speed_10m=9.0, toward_east=0.6, toward_north=0.8, profile="power", exponent=0.22,
+    minimum_height=1.0,
+)  # fmt: skip
+
+
+def _terminal_speed(k: float) -> float:
+    # v_t = sqrt(g / k): drag k v^2 balances gravity (Timmerman & van der Weele 1999, eq. 7).
+    return math.sqrt(G / k)
+
+
+# --------------------------------------------------------------------------------------------
+# Paths
+# --------------------------------------------------------------------------------------------
+
+
+@pytest.mark.parametrize(
+    ("height", "velocity", "k"),
+    [
+        (30.0, (0.0, 0.0, 0.0), 0.004),  # compact tool, v_t ~ 50 m/s
+        (30.0, (1.2, -0.5, 0.0), 0.08),  # pushed, v_t ~ 11 m/s
+        (45.0, (0.0, 0.0, 4.0), 0.6),  # thrown up, light, v_t ~ 4 m/s
+        (12.0, (-2.0, 0.0, -1.0), 0.02),  # thrown down against the wind
+    ],
+)
+def test_path_end_point_matches_engine(
+    height: float, velocity: tuple[float, float, float], k: float
+) -> None:
+    # The path is drawn with its own RK4 integrator: its end must be the engine's landing point
+    # within 0.5 % (brief), so the drawing agrees with the reported numbers.
+    (path,) = trajectory_paths(height, velocity, k, gravity=G, wind=SHEARED_WIND)
+    engine = solve_falls(height, velocity, k, gravity=G, wind=SHEARED_WIND)
+    assert engine.landed[0]
+    assert path.shape == (4, 200)
+    drift = math.hypot(engine.position[0, 0], engine.position[1, 0])
+    end_error = math.hypot(path[1, -1] - engine.position[0, 0], path[2, -1] - engine.position[1, 0])
+    assert end_error <= 0.005 * drift
+    assert abs(path[3, -1]) <= 0.005 * height
+    assert path[0, -1] == pytest.approx(engine.time[0], rel=0.005)
+    # Starts at the release point with the release velocity's direction of travel.
+    assert path[1:, 0] == pytest.approx([0.0, 0.0, height])
+
+
+def test_very_light_object_gets_quasi_steady_path_that_lands_where_the_engine_says() -> None:
+    # v_t = 0.6 m/s from 200 m in a 5 m/s wind: relaxation time ~ 2 ms against ~ 330 s of
+    # fall, too stiff for the fixed-step drawing integrator, so the quasi-steady path is used.
+    k = G / 0.6**2
+    wind = WindField(speed_10m=5.0, profile="log", roughness_length=0.3, minimum_height=5.0)
+    (path,) = trajectory_paths(200.0, (0.0, 0.0, 0.0), k, gravity=G, wind=wind)
+    engine = solve_falls(200.0, (0.0, 0.0, 0.0), k, gravity=G, wind=wind)
+    assert engine.landed[0]
+    assert path[1, -1] == pytest.approx(engine.position[0, 0], rel=0.005)
+    assert abs(path[2, -1]) < 1e-9
+    assert abs(path[3, -1]) < 1e-9
+    assert np.all(np.diff(path[3]) <= 0.0)
+
+
+def test_still_air_path_is_vertical_and_follows_the_closed_form() -> None:
+    height, k = 40.0, 0.01
+    vt = _terminal_speed(k)
+    (path,) = trajectory_paths(height, (0.0, 0.0, 0.0), k, gravity=G, samples=50)
+    assert np.all(path[1] == 0.0)
+    assert np.all(path[2] == 0.0)
+    # t(h) = (v_t / g) arccosh(exp(g h / v_t^2)) (Timmerman & van der Weele 1999, eq. 9).
+    duration = vt / G * math.acosh(math.exp(G * height / vt**2))
+    assert path[0, -1] == pytest.approx(duration, rel=1e-9)
+    # Distance fallen y(t) = (v_t^2 / g) ln cosh(g t / v_t) (same paper, eq. 8), at every
+    # sample: the intermediate states of the drawing integrator, not only its end.
+    fallen = vt**2 / G * np.log(np.cosh(G * path[0] / vt))
+    assert path[3] == pytest.approx(height - fallen, abs=1e-6 * height)
+
+
+def test_paths_come_one_per_lane() -> None:
+    paths = trajectory_paths(
+        np.array([5.0, 20.0, 60.0]), (0.0, 0.0, 0.0), 0.05, gravity=G, wind=SHEARED_WIND
+    )
+    assert len(paths) == 3
+    assert [p[3, 0] for p in paths] == [5.0, 20.0, 60.0]
+    # Higher release, longer fall, further drift (the wind blows the same way at every height).
+    drifts = [math.hypot(p[1, -1], p[2, -1]) for p in paths]
+    assert drifts == sorted(drifts)
+
+
+# --------------------------------------------------------------------------------------------
+# Energy curves
+# --------------------------------------------------------------------------------------------
+
+
+@pytest.mark.parametrize(("mass", "k"), [(1.2, 0.0025), (0.05, 0.02), (3.0, 0.05)])
+def test_energy_curve_in_still_air_matches_closed_form(mass: float, k: float) -> None:
+    heights = np.array([0.5, 2.0, 10.0, 35.0, 120.0])
+    energy = energy_curve(EnergyCurve("object", mass, k, gravity=G), heights)
+    vt = _terminal_speed(k)
+    # E(h) = 1/2 m v_t^2 (1 - exp(-2 g h / v_t^2)), from v(h) (Timmerman & van der Weele
+    # 1999, eq. 10).
+    expected = 0.5 * mass * vt**2 * -np.expm1(-2.0 * G * heights / vt**2)
+    assert not np.ma.is_masked(energy)
+    assert np.asarray(energy) == pytest.approx(expected, rel=1e-6)
+
+
+def test_energy_curve_masks_heights_where_the_object_is_carried_away() -> None:
+    # A sheet with v_t = 1 m/s in a 10 m/s (at 10 m) sheared wind drifts more than 10 m per
+    # metre of fall: from 3000 m it passes the engine's 20 km limit, from 5 m it lands.
+    wind = WindField(speed_10m=10.0, profile="power", exponent=0.2, minimum_height=1.0)
+    curve = EnergyCurve("sheet", 0.2, G / 1.0, gravity=G, wind=wind)
+    energy = energy_curve(curve, np.array([5.0, 3000.0]))
+    assert list(np.ma.getmaskarray(energy)) == [False, True]
+
+
+def test_energy_curve_heights_span_the_range() -> None:
+    heights = figures.energy_curve_heights(40.0)
+    assert heights[0] == 0.5
+    assert heights[-1] == pytest.approx(40.0)
+    assert 55 <= heights.size <= 60
+    assert np.all(np.diff(heights) > 0)
+
+
+# --------------------------------------------------------------------------------------------
+# Reference level labels
+# --------------------------------------------------------------------------------------------
+
+
+@pytest.mark.parametrize(
+    "wanted",
+    [
+        [0.50, 0.51, 0.52, 0.56, 0.70],
+        [0.10, 0.90],
+        [0.97, 0.98, 0.99],
+        [0.00, 0.01, 0.02],
+        [0.3],
+    ],
+)
+def test_level_labels_are_spread_apart_in_order_and_inside(wanted: list[float]) -> None:
+    # Geometric requirement of the brief (labels must not overlap); no external source needed.
+    gap = 0.05
+    placed = figures._spread(wanted, gap, 0.025, 0.975)
+    assert len(placed) == len(wanted)
+    assert all(b - a >= gap - 1e-12 for a, b in zip(placed, placed[1:], strict=False))
+    assert min(placed) >= 0.025 - 1e-12
+    assert max(placed) <= 0.975 + 1e-12
+    # Labels far from any other stay on their line.
+    if wanted == [0.10, 0.90]:
+        assert placed == wanted
+
+
+# --------------------------------------------------------------------------------------------
+# Files
+# --------------------------------------------------------------------------------------------
+
+
+def _cases() -> list[SideViewCase]:
+    cases = []
+    for label, k_small, k_large in (("hand tool", 0.003, 0.012), ("board offcut", 0.01, 0.15)):
+        for k, largest in ((k_small, False), (k_large, True)):
+            for speed, gust in ((7.0, False), (11.0, True)):
+                wind = WindField(speed_10m=speed, profile="power", exponent=0.2, minimum_height=1)
+                cases.append(
+                    SideViewCase(label, 20.0, (0.0, 0.0, 0.0), k, G, wind, largest, gust, 90.0)
+                )
+    return cases
+
+
+def _levels() -> list[tuple[str, float]]:
+    # EN 397:2012+A1 crown test 49 J (5 kg from 1 m); EN 14052 crown 100 J; ANSI/ISEA Z89.1
+    # Type I top 54.5 J (REFERENCES.md sec. 7) - close together, so their labels must stagger.
+    return [
+        ("industrial helmet crown test energy, EN 397", 49.0),
+        ("industrial helmet top test energy, ANSI/ISEA Z89.1 Type I", 54.5),
+        ("high-performance helmet crown test energy, EN 14052", 100.0),
+    ]
+
+
+def _curves() -> list[EnergyCurve]:
+    return [
+        EnergyCurve("hand tool, 1.2 kg", 1.2, 0.002, G, SHEARED_WIND),
+        EnergyCurve("bolt, 0.05 kg", 0.05, 0.0036, G, None),
+    ]
+
+
+def _assert_png(path: Path) -> None:
+    assert path.read_bytes()[:8] == PNG_SIGNATURE
+
+
+def _assert_svg(path: Path) -> None:
+    root = ElementTree.parse(path).getroot()
+    assert root.tag == f"{{{SVG_NAMESPACE}}}svg"
+
+
+def test_side_view_writes_png_and_svg(tmp_path: Path) -> None:
+    png, svg = tmp_path / "side.png", tmp_path / "side.SVG"
+    side_view(png, _cases(), 20.0, title="Work edge A")
+    side_view(svg, _cases()[:2], 20.0)
+    _assert_png(png)
+    _assert_svg(svg)
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["side.SVG", "side.png"]
+
+
+def test_energy_height_writes_png_and_svg(tmp_path: Path) -> None:
+    png, svg = tmp_path / "energy.png", tmp_path / "energy.svg"
+    energy_height(png, _curves(), _levels(), 40.0)
+    energy_height(svg, _curves(), [], 40.0, title="Objects on level 3")
+    _assert_png(png)
+    _assert_svg(svg)
+
+
+def _fall_result(**overrides: object) -> object:
+    values: dict[str, object] = {
+        "mass": 2.5,
+        "drag_area": 0.01,
+        "height": 24.0,
+        "release": Release("push", speed=1.5),
+        "wind": wind_spec(9.0, terrain="suburban", from_direction=300.0),
+        "drag_area_max": 0.06,
+        "object_name": "bag of scaffold clips",
+        "edge_azimuth": 120.0,
+    }
+    values.update(overrides)
+    return solve_fall(FallCase(**values))  # type: ignore[arg-type]
+
+
+def test_fall_figure_paths_land_where_the_fall_result_says(tmp_path: Path) -> None:
+    result = _fall_result()
+    cases = fall_cases(result)  # type: ignore[arg-type]
+    # Two drag bounds times the given wind and its estimated gust.
+    assert [(c.largest_drag, c.gust) for c in cases] == [
+        (False, False),
+        (False, True),
+        (True, False),
+        (True, True),
+    ]
+    report = result.to_json()  # type: ignore[attr-defined]
+    (path,) = trajectory_paths(
+        cases[0].release_height,
+        np.asarray(cases[0].initial_velocity),
+        cases[0].drag_parameter,
+        gravity=cases[0].gravity,
+        wind=cases[0].wind,
+    )
+    azimuth = math.radians(120.0)
+    out = path[1, -1] * math.sin(azimuth) + path[2, -1] * math.cos(azimuth)
+    assert out == pytest.approx(report["drift_away_from_edge_m"], rel=0.005)
+    fall_figure(tmp_path / "fall.png", result)  # type: ignore[arg-type]
+    _assert_png(tmp_path / "fall.png")
+
+
+def test_fall_figure_in_still_air_has_one_path(tmp_path: Path) -> None:
+    result = _fall_result(
+        wind=wind_spec(0.0), drag_area_max=None, release=Release(), object_name=None
+    )
+    assert len(fall_cases(result)) == 1  # type: ignore[arg-type]
+    fall_figure(tmp_path / "fall.svg", result)  # type: ignore[arg-type]
+    _assert_svg(tmp_path / "fall.svg")
+
+
+def test_failure_while_writing_leaves_no_file(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    from matplotlib.figure import Figure
+
+    def broken_savefig(self: Figure, target: Path, **kwargs: object) -> None:
+        Path(target).write_bytes(PNG_SIGNATURE + b"half a picture")
+        raise RuntimeError("renderer failed")
+
+    monkeypatch.setattr(Figure, "savefig", broken_savefig)
+    with pytest.raises(RuntimeError, match="renderer failed"):
+        energy_height(tmp_path / "energy.png", _curves(), _levels(), 30.0)
+    with pytest.raises(RuntimeError, match="renderer failed"):
+        side_view(tmp_path / "side.svg", _cases()[:1], 20.0)
+    assert list(tmp_path.iterdir()) == []
+
+
+def test_disk_error_is_reported_and_keeps_the_old_file(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    from matplotlib.figure import Figure
+
+    target = tmp_path / "side.png"
+    target.write_bytes(b"old figure")
+
+    def full_disk(self: Figure, destination: Path, **kwargs: object) -> None:
+        Path(destination).write_bytes(b"\x89PN")
+        raise OSError(28, "No space left on device")
+
+    monkeypatch.setattr(Figure, "savefig", full_disk)
+    with pytest.raises(InputError, match="cannot write"):
+        side_view(target, _cases()[:1], 20.0)
+    assert target.read_bytes() == b"old figure"
+    assert [p.name for p in tmp_path.iterdir()] == ["side.png"]
+
+
+@pytest.mark.parametrize(
+    ("call", "message"),
+    [
+        (lambda d: side_view(d / "a.pdf", _cases()[:1], 20.0), r"\.png, \.svg; got a\.pdf"),
+        (lambda d: side_view(d / "a.png", [], 20.0), "at least one fall"),
+        (lambda d: side_view(d / "a.png", _cases()[:1], math.nan), "height must be"),
+        (lambda d: energy_height(d / "a.jpg", _curves(), [], 30.0), "got a\\.jpg"),
+        (lambda d: energy_height(d / "a.png", [], [], 30.0), "at least one object"),
+        (lambda d: energy_height(d / "a.png", _curves(), [], 0.4), "max_height must be"),
+        (
+            lambda d: energy_height(d / "a.png", _curves(), [("helmet", -49.0)], 30.0),
+            "'helmet' must be a finite energy > 0 J; got -49",
+        ),
+        (lambda d: side_view(d / "no" / "a.png", _cases()[:1], 20.0), "does not exist"),
+    ],
+)
+def test_bad_input_is_refused_with_a_message(tmp_path: Path, call: object, message: str) -> None:
+    with pytest.raises(InputError, match=message):
+        call(tmp_path)  # type: ignore[operator]
+    assert list(tmp_path.iterdir()) == []
