@@ -81,7 +81,7 @@ def test_path_end_point_matches_engine(
     assert end_error <= 0.005 * drift
     assert abs(path[3, -1]) <= 0.005 * height
     assert path[0, -1] == pytest.approx(engine.time[0], rel=0.005)
-    # Starts at the release point with the release velocity's direction of travel.
+    # Starts at the release point.
     assert path[1:, 0] == pytest.approx([0.0, 0.0, height])
 
 
@@ -199,9 +199,31 @@ def _cases() -> list[SideViewCase]:
             for speed, gust in ((7.0, False), (11.0, True)):
                 wind = WindField(speed_10m=speed, profile="power", exponent=0.2, minimum_height=1)
                 cases.append(
-                    SideViewCase(label, 20.0, (0.0, 0.0, 0.0), k, G, wind, largest, gust, 90.0)
+                    SideViewCase(
+                        label, 20.0, (0.0, 0.0, 0.0), k, G, wind, largest_drag=largest, gust=gust
+                    )
                 )
     return cases
+
+
+def test_style_key_sets_object_drag_bound_and_wind() -> None:
+    # The report builder names each path fully and groups them by style_key.
+    wind = WindField(speed_10m=8.0)
+    keyed = [
+        SideViewCase(f"tool, Cd·A {b}, {w}", 20.0, np.zeros(3), 0.01, G, wind, ("tool", b, w))
+        for b in ("min", "max")
+        for w in ("mean", "gust")
+    ]
+    assert [(c.object_name, c.largest_drag, c.gust) for c in keyed] == [
+        ("tool", False, False),
+        ("tool", False, True),
+        ("tool", True, False),
+        ("tool", True, True),
+    ]
+    plain = SideViewCase("tool", 20.0, (0.0, 0.0, 0.0), 0.01, largest_drag=True)
+    assert (plain.object_name, plain.largest_drag, plain.gust) == ("tool", True, False)
+    with pytest.raises(ValueError, match="drag bound must be one of"):
+        SideViewCase("tool", 20.0, (0.0, 0.0, 0.0), 0.01, style_key=("tool", "mid", "mean"))
 
 
 def _levels() -> list[tuple[str, float]]:
@@ -233,7 +255,12 @@ def _assert_svg(path: Path) -> None:
 def test_side_view_writes_png_and_svg(tmp_path: Path) -> None:
     png, svg = tmp_path / "side.png", tmp_path / "side.SVG"
     side_view(png, _cases(), 20.0, title="Work edge A")
-    side_view(svg, _cases()[:2], 20.0)
+    keyed = [
+        SideViewCase(c.label, 20.0, c.initial_velocity, c.drag_parameter, G, c.wind,
+                     (c.label, "max" if c.largest_drag else "min", "gust" if c.gust else "mean"))
+        for c in _cases()[:2]
+    ]  # fmt: skip
+    side_view(svg, keyed, 20.0)
     _assert_png(png)
     _assert_svg(svg)
     assert sorted(p.name for p in tmp_path.iterdir()) == ["side.SVG", "side.png"]

@@ -604,13 +604,22 @@ def _advance(
     np.copyto(slope, new_slope, where=moved)
     params[_T] += np.where(moved, h, 0.0)
     params[_STEPS] += 1.0
-    params[_H] = new_h
+    # No step may carry a lane far past the time or distance limit (long implicit steps could
+    # otherwise overshoot it by kilometres): cap it at the time left and at the time to cover
+    # the distance left at the current horizontal speed, with a little slack to cross it.
+    horizontal = np.hypot(state[0], state[1])
+    horizontal_speed = np.hypot(state[3], state[4])
+    with np.errstate(divide="ignore"):
+        distance_time = (max_distance - horizontal) / horizontal_speed
+    time_left = np.minimum(max_time - params[_T], distance_time)
+    params[_H] = np.minimum(new_h, np.maximum(1.01 * time_left, 1e-3 * new_h))
 
     at_kink = contact & (floor > 0.0)
     params[_FLOOR, at_kink] = 0.0
     contact &= ~at_kink
-    horizontal = np.hypot(state[0], state[1])
-    abandoned = ~contact & ((params[_T] > max_time) | (horizontal > max_distance))
+    beyond = (params[_T] > max_time) | (horizontal > max_distance)
+    contact &= ~beyond  # a landing past a limit is not a landing within it
+    abandoned = ~contact & beyond
     finished = contact | abandoned
     if not np.any(finished):
         return

@@ -390,14 +390,22 @@ def energy_curve(curve: EnergyCurve, heights: ArrayLike) -> np.ma.MaskedArray:
 # --------------------------------------------------------------------------------------------
 
 
+#: Drag bound names accepted in ``SideViewCase.style_key`` (smallest, largest drag area).
+DRAG_BOUND_NAMES = {"min": False, "smallest": False, "max": True, "largest": True}
+
+
 @dataclass(frozen=True)
 class SideViewCase:
     """One path of the side view.
 
+    How the path is drawn is given either by ``largest_drag`` and ``gust`` (and ``label``
+    naming the object), or by ``style_key``, which then sets all three.
+
     Attributes
     ----------
     label : str
-        Object name: paths with the same label share a colour and one legend entry.
+        Object name: paths of the same object share a colour and one legend entry (unless
+        ``style_key`` names the object).
     release_height : float
         Height of the release point above the ground. [m]
     initial_velocity : tuple of 3 floats or array, shape (3,)
@@ -408,15 +416,25 @@ class SideViewCase:
         Acceleration of gravity. [m/s^2]
     wind : WindField
         Wind with scalar values (or arrays of length 1).
+    style_key : tuple of (str, str, str) or None
+        (object name, drag bound, wind kind): the drag bound is "min"/"smallest" or
+        "max"/"largest", the wind kind "mean" (or any name of the given wind) or one that
+        contains "gust". Overrides ``largest_drag`` and ``gust``; the object name groups the
+        colours instead of ``label``.
+    edge_azimuth : float
+        Direction the edge faces (away from the structure), clockwise from north; the
+        horizontal axis is the distance along it. [deg]
     largest_drag : bool
         The path is for the object's largest drag area (dashed line); False for its smallest
         or only drag area (solid line).
     gust : bool
         The path is in the gust (lighter tone, open landing marker); False for the mean or
         given wind.
-    edge_azimuth : float
-        Direction the edge faces (away from the structure), clockwise from north; the
-        horizontal axis is the distance along it. [deg]
+
+    Raises
+    ------
+    ValueError
+        For a ``style_key`` that is not three strings or names an unknown drag bound.
     """
 
     label: str
@@ -425,9 +443,66 @@ class SideViewCase:
     drag_parameter: float
     gravity: float = STANDARD_GRAVITY
     wind: WindField = field(default_factory=WindField)
+    style_key: tuple[str, str, str] | None = None
+    edge_azimuth: float = 90.0
     largest_drag: bool = False
     gust: bool = False
-    edge_azimuth: float = 90.0
+
+    def __post_init__(self) -> None:
+        if self.style_key is None:
+            return
+        if len(self.style_key) != 3:
+            raise ValueError(
+                f"style_key must be (object, drag bound, wind kind); got {self.style_key!r}"
+            )
+        _, bound, kind = self.style_key
+        if bound not in DRAG_BOUND_NAMES:
+            raise ValueError(
+                f"style_key drag bound must be one of {', '.join(DRAG_BOUND_NAMES)}; got {bound!r}"
+            )
+        object.__setattr__(self, "largest_drag", DRAG_BOUND_NAMES[bound])
+        object.__setattr__(self, "gust", "gust" in str(kind).lower())
+
+    @property
+    def object_name(self) -> str:
+        """Name that groups the paths of one object (one colour, one legend entry)."""
+        return self.label if self.style_key is None else str(self.style_key[0])
+
+
+def _scalar(value: ArrayLike) -> float:
+    return float(np.ravel(np.asarray(value, dtype=float))[0])
+
+
+def _case_paths(cases: Sequence[SideViewCase], max_distance: float) -> list[NDArray[np.float64]]:
+    """Paths of the cases, one :func:`trajectory_paths` call per wind profile law."""
+    tracks: list[NDArray[np.float64] | None] = [None] * len(cases)
+    for profile in dict.fromkeys(c.wind.profile for c in cases):
+        chosen = [i for i, c in enumerate(cases) if c.wind.profile == profile]
+        group = [cases[i] for i in chosen]
+
+        def column(name: str, group: list[SideViewCase] = group) -> NDArray[np.float64]:
+            return np.array([_scalar(getattr(c.wind, name)) for c in group])
+
+        wind = WindField(
+            speed_10m=column("speed_10m"),
+            toward_east=column("toward_east"),
+            toward_north=column("toward_north"),
+            profile=profile,
+            exponent=column("exponent"),
+            roughness_length=column("roughness_length"),
+            minimum_height=column("minimum_height"),
+        )
+        paths = trajectory_paths(
+            np.array([c.release_height for c in group], dtype=float),
+            np.stack([np.asarray(c.initial_velocity, dtype=float).reshape(3) for c in group], 1),
+            np.array([c.drag_parameter for c in group], dtype=float),
+            gravity=np.array([c.gravity for c in group], dtype=float),
+            wind=wind,
+            max_distance=max_distance,
+        )
+        for i, track in zip(chosen, paths, strict=True):
+            tracks[i] = track
+    return [track for track in tracks if track is not None]
 
 
 def _figure_format(path: Path, what: str) -> str:
@@ -470,7 +545,7 @@ def _lighter(colour: Any, amount: float) -> tuple[float, float, float]:
 
 
 def _speed_text(wind: WindField) -> str:
-    speed = float(np.ravel(np.asarray(wind.speed_10m, dtype=float))[0])
+    speed = _scalar(wind.speed_10m)
     return f"{speed:.3g} m/s at 10 m"
 
 
@@ -478,9 +553,7 @@ def _wind_kind_label(cases: Sequence[SideViewCase], gust: bool) -> str:
     chosen = [c for c in cases if c.gust == gust]
     speeds = {_speed_text(c.wind) for c in chosen}
     name = "gust" if gust else "mean wind"
-    if not gust and all(
-        float(np.ravel(np.asarray(c.wind.speed_10m, dtype=float))[0]) == 0.0 for c in chosen
-    ):
+    if not gust and all(_scalar(c.wind.speed_10m) == 0.0 for c in chosen):
         return "still air"
     return f"{name}, {speeds.pop()}" if len(speeds) == 1 else name
 
@@ -530,21 +603,14 @@ def side_view(
     from matplotlib.figure import Figure
     from matplotlib.lines import Line2D
 
+    tracks = _case_paths(cases, max_distance)
     drawn = []
-    for case in cases:
-        (track,) = trajectory_paths(
-            case.release_height,
-            np.asarray(case.initial_velocity, dtype=float),
-            case.drag_parameter,
-            gravity=case.gravity,
-            wind=case.wind,
-            max_distance=max_distance,
-        )
+    for case, track in zip(cases, tracks, strict=True):
         azimuth = math.radians(case.edge_azimuth)
         out = track[1] * math.sin(azimuth) + track[2] * math.cos(azimuth)
         drawn.append((case, out, track[3]))
 
-    colours = _object_colours([c.label for c in cases])
+    colours = _object_colours([c.object_name for c in cases])
     figure = Figure(figsize=(8.6, 5.2), dpi=100)
     FigureCanvasAgg(figure)
     axes = figure.add_axes((0.085, 0.11, 0.57, 0.74))
@@ -581,7 +647,7 @@ def side_view(
     farthest = None
     not_landed = False
     for case, out, z in drawn:
-        colour = colours[case.label]
+        colour = colours[case.object_name]
         tone = _lighter(colour, GUST_LIGHTEN) if case.gust else colour
         axes.plot(
             out,
@@ -629,11 +695,16 @@ def side_view(
         color=INK,
         ha="left",
     )
-    if farthest is not None:
+    if farthest is not None or not_landed:
+        subtitle = (
+            f"farthest landing point: {_metres(farthest)} out from the edge"
+            if farthest is not None
+            else "no landing point: still airborne where the model stops following the fall"
+        )
         figure.text(
             0.085,
             0.885,
-            f"farthest landing point: {farthest:.1f} m out from the edge",
+            subtitle,
             fontsize=9.5,
             color=INK,
             ha="left",
@@ -699,6 +770,10 @@ def side_view(
         legend.get_texts()[i].set_fontweight("bold")
         legend.get_texts()[i].set_fontsize(9)
     _save(figure, path, image_format)
+
+
+def _metres(distance: float) -> str:
+    return f"{distance:.1f} m" if abs(distance) < 100 else f"{distance:,.0f} m"
 
 
 def _to_rgb(colour: str) -> tuple[float, float, float]:

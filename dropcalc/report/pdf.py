@@ -634,7 +634,8 @@ def _objects(data: ReportData, styles: dict[str, ParagraphStyle]) -> list[Flowab
     for index, row in enumerate(data.object_rows, start=1):
         item = Paragraph(_text(_item_label(row)), styles["cell"])
         if row.get("error"):
-            cells.append([item, Paragraph(_text(row["error"]), styles["cell"])] + [""] * 9)
+            reason = Paragraph("not computed: " + _text(row["error"]), styles["cell"])
+            cells.append([item, reason] + [""] * (len(_OBJECT_COLUMNS) - 2))
             spans.append(("SPAN", (1, index), (-1, index)))
             continue
         keys = [k.strip() for k in str(row.get("levels_exceeded") or "").split(";") if k.strip()]
@@ -692,7 +693,7 @@ def _levels_legend(data: ReportData, styles: dict[str, ParagraphStyle]) -> list[
                 str(number),
                 Paragraph(_text(key), styles["cell"]),
                 Paragraph(_text(label), styles["cell"]),
-                Paragraph(f"{sig(value)}\u00a0{_text(unit)}", styles["cell_right"]),
+                Paragraph(f"{value:.4g}\u00a0{_text(unit)}", styles["cell_right"]),
                 Paragraph(_text(source), styles["cell"]),
             ]
         )
