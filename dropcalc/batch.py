@@ -261,7 +261,7 @@ def _resolve_row(
             raise InputError("drag is missing: give drag_area, or shape with its dimensions")
     return Item(
         row=number,
-        label=label or object_id,
+        label=label or name or object_id,
         object_id=object_id,
         name=name or label or object_id,
         quantity=count,

@@ -247,15 +247,8 @@ def build_results(scenario: Scenario, figure_dir: Path, progress: Any = None) ->
         air_text=f"{air.density:.4g} kg/m³ ({air.basis}); g = {scenario.gravity:.5g} m/s²",
         ground_text=scenario.ground.label,
         inputs=[
-            ("Wind", wind.describe()),
             ("Gust used for the worst case", f"{_gust(scenario):.3g} m/s at 10 m"),
-            ("Air", f"{air.density:.4g} kg/m³ ({air.basis})"),
             ("Gravity", f"{scenario.gravity:.5g} m/s²"),
-            ("Ground below", scenario.ground.label),
-            (
-                "Confidence of the zone radius",
-                f"{100 * scenario.confidence:g} % of simulated drops",
-            ),
             ("Margin added", f"{scenario.margin:g} m"),
             (
                 "Monte Carlo precision",
