@@ -377,6 +377,9 @@ def fall(
     ] = None,
     edge_azimuth: EdgeAzimuthOpt = 90.0,
     library: LibraryOpt = None,
+    plot: Annotated[
+        Path | None, typer.Option(help="Write a side view of the fall (PNG or SVG).")
+    ] = None,
     units: UnitsOpt = UnitSystem.si,
     as_json: JsonOpt = False,
 ) -> None:
@@ -440,7 +443,13 @@ def fall(
             object_name=obj.name if obj is not None else None,
             glides=bool(obj.glides) if obj is not None else False,
         )
+        if plot is not None and plot.suffix.lower() not in (".png", ".svg"):
+            raise InputError(f"--plot must end in .png or .svg; got {plot.name}")
         result = solve_fall(case)
+        if plot is not None:
+            from dropcalc.report.figures import fall_figure
+
+            fall_figure(plot, result)
     except DropcalcError as exc:
         _fail(str(exc))
         return
@@ -643,13 +652,23 @@ def zone(
         )  # fmt: skip
         if site is None and height is None:
             raise InputError("give --height (or --site with the edge heights)")
-        if site is None and (plot is not None or geojson is not None):
-            raise InputError("--plot and --geojson draw the site plan: give --site too")
+        if site is None and geojson is not None:
+            raise InputError("--geojson places the site on the map: give --site with its origin")
         plan = None
         if site is not None:
             from dropcalc.plan import load_site
 
             plan = load_site(site)
+        elif plot is not None:
+            # No site: draw the zone around a 1 m stretch of edge facing --edge-azimuth.
+            from dropcalc.plan import Site, SitePlan, WorkEdge
+
+            nx, ny = math.sin(math.radians(edge_azimuth)), math.cos(math.radians(edge_azimuth))
+            edge = WorkEdge(
+                "work edge", ((ny / 2, -nx / 2), (-ny / 2, nx / 2)),
+                float(_q(height, "length", "--height")),
+            )  # fmt: skip
+            plan = SitePlan(Site(None, (edge,)))
             if geojson is not None and plan.origin_lat is None:
                 raise InputError(f"--geojson needs the site's origin (lat, lon) in {site.name}")
         height_m = (

@@ -715,7 +715,7 @@ def side_view(
     sections: list[tuple[str, list[Any]]] = [
         (
             "Object",
-            [Line2D([], [], color=c, lw=2.6, label=label) for label, c in colours.items()],
+            [Line2D([], [], color=c, lw=2.6, label=_short(label)) for label, c in colours.items()],
         )
     ]
     if len({c.largest_drag for c in cases}) > 1:
@@ -1075,3 +1075,8 @@ __all__: list[str] = [
     "side_view",
     "trajectory_paths",
 ]
+
+
+def _short(label: str, width: int = 30) -> str:
+    """A legend label cut to ``width`` characters (the key sits beside the plot)."""
+    return label if len(label) <= width else label[: width - 1].rstrip() + "…"
