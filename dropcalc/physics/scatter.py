@@ -62,6 +62,8 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
 from dropcalc.errors import InputError, UnknownObjectError
+from dropcalc.physics.checks import as_samples as _as_samples
+from dropcalc.physics.checks import first_bad as _first_bad
 from dropcalc.physics.constants import STANDARD_GRAVITY
 
 #: Rebound normal speed below which hops are no longer counted [m/s]. Common practice, no
@@ -706,24 +708,6 @@ def _fragment_range(speed: NDArray, g: NDArray, fraction: float) -> NDArray[np.f
 
 
 # --- checks ----------------------------------------------------------------------------------
-
-
-def _as_samples(name: str, value: ArrayLike) -> NDArray[np.float64]:
-    """Return ``value`` as a float array of dimension 0 or 1, else raise InputError."""
-    try:
-        array = np.asarray(value, dtype=float)
-    except (TypeError, ValueError):
-        raise InputError(
-            f"{name} must be a number or a 1-D array of numbers; got {value!r}"
-        ) from None
-    if array.ndim > 1:
-        raise InputError(f"{name} must be a number or a 1-D array; got shape {array.shape}")
-    return array
-
-
-def _first_bad(array: NDArray, good: NDArray) -> float:
-    """First element of ``array`` where ``good`` is False (NaN counts as bad)."""
-    return float(np.broadcast_to(array, np.shape(good))[~good].flat[0])
 
 
 def _check_speed(name: str, value: ArrayLike) -> NDArray[np.float64]:
