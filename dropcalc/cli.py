@@ -659,6 +659,8 @@ def zone(
             from dropcalc.plan import load_site
 
             plan = load_site(site)
+            if geojson is not None and plan.origin_lat is None:
+                raise InputError(f"--geojson needs the site's origin (lat, lon) in {site.name}")
         elif plot is not None:
             # No site: draw the zone around a 1 m stretch of edge facing --edge-azimuth.
             from dropcalc.plan import Site, SitePlan, WorkEdge

@@ -225,7 +225,9 @@ BAD_INPUTS = {
     "negative-height": (("--height", "-5 m", *BRICK), None, ("height", "-5")),
     "confidence-1.5": (("--height", "18 m", *BRICK, "--confidence", "1.5"), None, ("1.5",)),
     "unknown-ground": (("--height", "18 m", *BRICK, "--ground", "moon"), None, ("moon",)),
-    "plot-without-site": (("--height", "18 m", *BRICK, "--plot", "p.png"), None, ("--site",)),
+    "geojson-without-site": (
+        ("--height", "18 m", *BRICK, "--geojson", "a.geojson"), None, ("--site",),
+    ),
     "geojson-without-origin": (
         ("--object", "brick-uk-standard", "--geojson", "area.geojson"), NO_ORIGIN, ("origin",),
     ),
@@ -280,3 +282,11 @@ def test_bad_precision_names_the_option() -> None:
     (line,) = [line for line in result.stderr.splitlines() if line.strip()]
     assert "--precision" in line, line
     assert "5" in line, line
+
+
+def test_plot_without_a_site_draws_the_zone_around_a_stretch_of_edge(tmp_path: Path) -> None:
+    # zone --plot on its own (no site file): the plan around a 1 m stretch of edge.
+    target = tmp_path / "zone.png"
+    result = invoke("--height", "18 m", *BRICK, "--plot", str(target))
+    assert result.exit_code == 0, result.output
+    assert target.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"  # PNG signature (ISO/IEC 15948)
