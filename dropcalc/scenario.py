@@ -80,50 +80,57 @@ class _Where:
         self.lines = text.splitlines()
 
     def line_of(self, key_path: str) -> int | None:
-        """Best-effort line number of a key path like ``work_area[2].edge[1].height``."""
-        start = 0
+        """Best-effort line number of a key path like ``work_area[2].edge[1].height``.
+
+        The line of the key itself when it is there, else the line of its table's header.
+        """
+        start: int | None = None  # index of the current table's header line
         parts = key_path.split(".")
         table = ""
+        header = re.compile(r"^\s*\[")
         for i, part in enumerate(parts):
             match = re.fullmatch(r"(\w+)\[(\d+)\]", part)
+            begin = 0 if start is None else start
             if match:
                 name, index = match[1], int(match[2])
                 table = f"{table}.{name}" if table else name
                 pattern = re.compile(rf"^\s*\[\[\s*{re.escape(table)}\s*\]\]")
-                found = 0
-                for n in range(start, len(self.lines)):
-                    if pattern.match(self.lines[n]):
-                        found += 1
-                        if found == index:
-                            start = n
-                            break
-                else:
-                    return None
+                hits = [n for n in range(begin, len(self.lines)) if pattern.match(self.lines[n])]
+                if len(hits) < index:
+                    return None if start is None else start + 1
+                start = hits[index - 1]
             elif i == len(parts) - 1:
                 key = re.compile(rf"^\s*{re.escape(part)}\s*=")
-                for n in range(start, len(self.lines)):
+                first = begin + 1 if start is not None else 0
+                for n in range(first, len(self.lines)):
+                    if start is not None and header.match(self.lines[n]):
+                        break  # the next table: the key is not in this one
+                    if start is None and header.match(self.lines[n]):
+                        break  # top-level keys come before the first table
                     if key.match(self.lines[n]):
                         return n + 1
-                return start + 1 if start else None
+                return None if start is None else start + 1
             else:
                 table = f"{table}.{part}" if table else part
                 pattern = re.compile(rf"^\s*\[\s*{re.escape(table)}\s*\]")
-                for n in range(start, len(self.lines)):
-                    if pattern.match(self.lines[n]):
-                        start = n
-                        break
-        return start + 1 if start else None
+                hits = [n for n in range(begin, len(self.lines)) if pattern.match(self.lines[n])]
+                if not hits:
+                    # Not a table of its own: an inline table, ``part = { ... }``, in this one.
+                    inline = re.compile(rf"^\s*{re.escape(part)}\s*=")
+                    for n in range(begin, len(self.lines)):
+                        if n > begin and header.match(self.lines[n]):
+                            break
+                        if inline.match(self.lines[n]):
+                            return n + 1
+                    return None if start is None else start + 1
+                start = hits[0]
+        return None if start is None else start + 1
 
     def error(self, key_path: str, message: str) -> InputError:
         """An InputError naming the file, the line (when found) and the key path."""
         line = self.line_of(key_path)
         at = f"line {line}: " if line else ""
         return InputError(f"{self.path.name}: {at}{key_path}: {message}")
-
-
-def _strip_field(message: str) -> str:
-    """Drop a leading field name from a model's message (the key path replaces it)."""
-    return re.sub(r"^[-\w]+:\s*", "", message, count=1)
 
 
 def load_scenario(path: Path) -> Scenario:
@@ -180,13 +187,28 @@ def load_scenario(path: Path) -> Scenario:
         try:
             return parse_quantity(value, kind, key_path)
         except InputError as exc:
-            raise where.error(key_path, _strip_field(str(exc))) from None
+            message = str(exc)
+            if message.startswith(f"{key_path}: "):
+                message = message[len(key_path) + 2 :]
+            raise where.error(key_path, message) from None
 
-    def model(key_path: str, build: Any) -> Any:
+    def number(value: Any, key_path: str, convert: Any = float) -> Any:
+        if isinstance(value, bool):
+            raise where.error(key_path, f"expected a number; got {value!r}")
+        try:
+            return convert(value)
+        except (TypeError, ValueError):
+            raise where.error(key_path, f"expected a number; got {value!r}") from None
+
+    def model(key_path: str, build: Any, fields: dict[str, str] | None = None) -> Any:
         try:
             return build()
         except DropcalcError as exc:
-            raise where.error(key_path, str(exc)) from None
+            message = str(exc)
+            first = message.split(" ", 1)[0].rstrip(":")
+            if fields and first in fields:  # the model named its own field: use the file's key
+                raise where.error(fields[first], message) from None
+            raise where.error(key_path, message) from None
 
     def text_of(value: Any, key_path: str) -> str:
         if not isinstance(value, str | int | float) or isinstance(value, bool):
@@ -221,7 +243,7 @@ def load_scenario(path: Path) -> Scenario:
         o = site_table["origin"]
         if not isinstance(o, dict) or set(o) != {"lat", "lon"}:
             raise where.error("site.origin", "expected { lat = ..., lon = ... } in degrees")
-        origin = (float(o["lat"]), float(o["lon"]))
+        origin = (number(o["lat"], "site.origin.lat"), number(o["lon"], "site.origin.lon"))
     outline = site_table.get("outline")
 
     wind_table = table("wind")
@@ -245,15 +267,25 @@ def load_scenario(path: Path) -> Scenario:
             ),
             terrain=wind_table.get("terrain"),
         ),
-    )
+        {
+            "speed_10m": "wind.speed", "kind": "wind.kind", "from_direction": "wind.from",
+            "profile": "wind.profile", "exponent": "wind.exponent",
+            "roughness_length": "wind.roughness", "terrain": "wind.terrain",
+            "unknown": "wind.terrain", "minimum_height": "wind.roughness",
+        },
+    )  # fmt: skip
 
     policy = table("policy")
-    confidence = float(policy.get("confidence", 0.99))
+    confidence = number(policy.get("confidence", 0.99), "policy.confidence")
     if not (0.5 <= confidence <= 0.9999):
         raise where.error("policy.confidence", f"must be between 0.5 and 0.9999; got {confidence}")
     margin = quantity(policy.get("margin", "2 m"), "length", "policy.margin")
-    precision = float(policy.get("precision", 0.01))
-    seed = int(policy.get("seed", 1))
+    if not (0 <= margin <= 100):
+        raise where.error("policy.margin", f"must be between 0 and 100 m; got {margin:g} m")
+    precision = number(policy.get("precision", 0.01), "policy.precision")
+    if not (0.001 <= precision <= 0.2):
+        raise where.error("policy.precision", f"must be between 0.001 and 0.2; got {precision}")
+    seed = number(policy.get("seed", 1), "policy.seed", int)
     level_keys = policy.get("levels", list(DEFAULT_LEVEL_KEYS))
     if not isinstance(level_keys, list):
         raise where.error("policy.levels", "expected a list of reference level keys")
@@ -325,7 +357,11 @@ def load_scenario(path: Path) -> Scenario:
         parsed, errors = parse_items(frame, library, settings)
         if errors:
             first = errors[0]
-            raise where.error(f"object[{first.row - 1}]", first.message)
+            key = f"object[{first.row - 1}]"
+            word = first.message.split(" ", 1)[0].rstrip(":")
+            if word in _KEYS["object"] or word.startswith("unknown"):
+                key += "." + (word if word in _KEYS["object"] else "id")
+            raise where.error(key, first.message)
         items.extend(parsed)
     if "objects_file" in data:
         list_path = path.parent / str(data["objects_file"])

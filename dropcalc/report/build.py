@@ -75,7 +75,7 @@ def _code_rules(areas: list[WorkAreaResult]) -> list[tuple[str, str, str]]:
                 f"{area.name}: pedestrian protection not needed beyond H/2; barrier H/4 to H/2; "
                 "covered walkway inside H/4",
                 f"H = {h:.3g} m: H/2 = {h / 2:.3g} m, H/4 = {h / 4:.3g} m "
-                f"(computed zone {area.radius_m:.3g} m)",
+                f"(computed zone {math.ceil(area.radius_m * 10 - 1e-9) / 10:.1f} m)",
                 "International Building Code, Table 3306.1",
             )
         )
@@ -210,18 +210,20 @@ def build_results(scenario: Scenario, figure_dir: Path, progress: Any = None) ->
         for row in rows
         if row.get("control") and row["control"] != default_control
     ]
-    for row in rows:
-        if row.get("glides"):
-            warnings.append(
-                f"{row.get('label')}: a sheet or plate; it can glide far downwind and the "
-                "computed zone is not conservative for it. Secure sheets against wind."
-            )
-        if "windborne" in str(row.get("warnings", "")):
-            warnings.append(
-                f"{row.get('label')}: windborne in this wind (terminal speed below it)."
-            )
+    gliders = [str(row.get("label")) for row in rows if row.get("glides")]
+    if gliders:
+        warnings.append(
+            f"Sheets and plates ({', '.join(gliders)}) can glide far downwind: the computed "
+            "zone is not conservative for them. Secure them against wind before work starts."
+        )
+    windborne = [str(row.get("label")) for row in rows if "windborne" in str(row.get("warnings"))]
+    if windborne:
+        warnings.append(
+            f"Windborne in this wind (terminal speed below the wind speed): {', '.join(windborne)}."
+        )
 
-    figures = _figures(scenario, objects, rows, figure_dir, top_height)
+    drivers = [a.driving_object for a in areas]
+    figures = _figures(scenario, objects, rows, figure_dir, top_height, drivers)
     air = scenario.air
     job = scenario.job
     report = ReportData(
@@ -240,13 +242,11 @@ def build_results(scenario: Scenario, figure_dir: Path, progress: Any = None) ->
         software_version=__version__,
         generated=_dt.datetime.now(_dt.UTC).strftime("%Y-%m-%d %H:%M UTC"),
         confidence=scenario.confidence,
-        wind_text=wind.describe()
-        + (
-            " Direction not given: each edge checked with the wind straight out." if outward else ""
-        ),
+        wind_text=_wind_text(scenario, outward),
         air_text=f"{air.density:.4g} kg/m³ ({air.basis}); g = {scenario.gravity:.5g} m/s²",
         ground_text=scenario.ground.label,
         inputs=[
+            ("Wind profile", wind.describe().split("; ", 1)[-1]),
             ("Gust used for the worst case", f"{_gust(scenario):.3g} m/s at 10 m"),
             ("Gravity", f"{scenario.gravity:.5g} m/s²"),
             ("Margin added", f"{scenario.margin:g} m"),
@@ -285,6 +285,26 @@ def build_results(scenario: Scenario, figure_dir: Path, progress: Any = None) ->
     return ScenarioResults(report, zones, rows, geojson)
 
 
+def _wind_text(scenario: Scenario, outward: bool) -> str:
+    """The wind in a few words: speed, kind, gust, profile and direction."""
+    wind = scenario.wind
+    if wind.speed_10m == 0:
+        return "still air"
+    from dropcalc.physics.wind import terrain
+
+    profiles = {"uniform": "uniform with height", "power": "power law", "log": "log law"}
+    profile = terrain(wind.terrain_key).label if wind.terrain_key else profiles[wind.profile]
+    direction = (
+        "direction not given: each edge checked with the wind blowing straight out from it"
+        if outward
+        else f"from {wind.from_direction_deg:.0f}°"
+    )
+    return (
+        f"{wind.speed_10m:g} m/s {wind.kind} at 10 m (gust {_gust(scenario):.3g} m/s), "
+        f"{profile}; {direction}"
+    )
+
+
 def _gust(scenario: Scenario) -> float:
     wind = scenario.wind
     if wind.speed_10m == 0:
@@ -293,7 +313,12 @@ def _gust(scenario: Scenario) -> float:
 
 
 def _figures(
-    scenario: Scenario, objects: list[Any], rows: list[dict[str, Any]], folder: Path, height: float
+    scenario: Scenario,
+    objects: list[Any],
+    rows: list[dict[str, Any]],
+    folder: Path,
+    height: float,
+    drivers: list[str],
 ) -> dict[str, Path]:
     """Side view and energy-against-height figures for the objects that matter most."""
     from dropcalc.fall import wind_field
@@ -303,6 +328,11 @@ def _figures(
 
     by_name = {o.name: o for o in objects}
     chosen: list[Any] = []
+    # The objects that drive a zone first (the side view must show the drift it is about),
+    # then the highest-energy ones.
+    for name in drivers:
+        if name in by_name and by_name[name] not in chosen:
+            chosen.append(by_name[name])
     for row in rows[:FIGURE_OBJECTS]:
         obj = by_name.get(str(row.get("label") or row.get("name")))
         if obj is not None and obj not in chosen:
@@ -316,7 +346,7 @@ def _figures(
     )
     outward = replace(wind, from_direction_deg=(azimuth + 180.0) % 360.0)
     cases = []
-    for obj in chosen[:3]:
+    for obj in chosen[:4]:
         for bound, area_m2 in (("min", obj.drag_area_min), ("max", obj.drag_area_max)):
             k = float(drag_parameter(scenario.air.density, area_m2, obj.mass))
             for speed in speeds:

@@ -570,7 +570,7 @@ def side_view(
     Height above the ground against the horizontal distance out from the edge (the component
     of the path along the edge's outward direction). The structure is a grey band at x <= 0 up
     to ``height``; landing points are marked. Colour: the object (cividis); line style: drag
-    bound (solid smallest C_d·A, dashed largest); tone and marker: mean wind (full tone,
+    bound (solid smallest Cd·A, dashed largest); tone and marker: mean wind (full tone,
     filled marker) or gust (lighter tone, open marker).
 
     Parameters
@@ -721,7 +721,7 @@ def side_view(
     if len({c.largest_drag for c in cases}) > 1:
         sections.append(
             (
-                "Drag area C_d·A",
+                "Drag area Cd·A",
                 [
                     Line2D([], [], color=grey, lw=1.9, label="smallest"),
                     Line2D(

@@ -411,9 +411,9 @@ def _title_block(data: ReportData, styles: dict[str, ParagraphStyle]) -> list[Fl
 
 def _work_area_box(
     area: WorkAreaResult, data: ReportData, styles: dict[str, ParagraphStyle]
-) -> Table:
+) -> Flowable:
     """One work area: the distance to keep clear, what it rests on, and its plan."""
-    plan_width = 62 * mm
+    plan_width = 98 * mm
     text_width = FRAME_WIDTH - plan_width - 4 * mm
     heights = ", ".join(f"{sig(h)}\u00a0m" for h in area.heights_m) or "—"
     made_of = (
@@ -421,22 +421,22 @@ def _work_area_box(
         f"margin {sig(area.margin_m)}\u00a0m"
     )
     facts = [
-        ("Worst-case envelope", f"{keep_clear(area.worst_case_radius_m)}\u00a0m"),
+        ("Worst case", f"{keep_clear(area.worst_case_radius_m)}\u00a0m (deterministic envelope)"),
         (
-            "Zone on the plan",
-            f"{sig(area.area_m2)}\u00a0m², reaching {sig(area.max_distance_m)}\u00a0m "
-            "from the nearest work edge",
+            "Area",
+            f"{sig(area.area_m2)}\u00a0m², reaching {sig(area.max_distance_m)}\u00a0m from the "
+            "nearest work edge",
         ),
-        ("Holds for wind", data.wind_text),
-        ("Widest zone from", f"{area.driving_object}, at edge {area.driving_edge}"),
+        ("Wind", data.wind_text),
+        ("Driven by", f"{area.driving_object}, at {area.driving_edge}"),
         ("Release", f"{area.release}; edge heights {heights}"),
-        ("Distance made of", made_of),
+        ("Made of", made_of),
     ]
     fact_cells = [
         [Paragraph(_text(label), styles["label"]), Paragraph(_text(value), styles["value"])]
         for label, value in facts
     ]
-    fact_table = Table(fact_cells, colWidths=[34 * mm, text_width - 34 * mm - 12])
+    fact_table = Table(fact_cells, colWidths=[17 * mm, text_width - 17 * mm - 12])
     fact_table.setStyle(
         TableStyle(
             [
@@ -448,7 +448,7 @@ def _work_area_box(
             ]
         )
     )
-    left: list[Flowable] = [
+    headline: list[Flowable] = [
         Paragraph(f"Keep {keep_clear(area.radius_m)} m clear", styles["distance"]),
         Paragraph(
             f"from the work edge. Contains {_percent(data.confidence)} of simulated drops, "
@@ -456,17 +456,16 @@ def _work_area_box(
             f"{sig(area.standard_error_m, 2)}\u00a0m; rounded up to 0.1 m.",
             styles["note"],
         ),
-        Spacer(1, 2),
-        fact_table,
     ]
-    plan = _image(area.plan_png, plan_width - 8, 64 * mm)
+    plan = _image(area.plan_png, plan_width - 4, 54 * mm)
     right: Flowable = (
         plan if plan is not None else Paragraph("Plan drawing not available.", styles["note"])
     )
     table = Table(
         [
             [Paragraph(f"Work area: {_text(area.name)}", styles["area_name"]), ""],
-            [left, right],
+            [headline, ""],
+            [fact_table, right],
         ],
         colWidths=[text_width, plan_width + 4 * mm],
     )
@@ -474,21 +473,23 @@ def _work_area_box(
         TableStyle(
             [
                 ("SPAN", (0, 0), (1, 0)),
+                ("SPAN", (0, 1), (1, 1)),
                 ("BACKGROUND", (0, 0), (1, 0), CIVIDIS_DARK),
                 ("BOX", (0, 0), (-1, -1), 0.9, CIVIDIS_DARK),
-                ("BACKGROUND", (0, 1), (0, 1), CIVIDIS_TINT),
+                ("BACKGROUND", (0, 1), (1, 1), CIVIDIS_TINT),
+                ("BACKGROUND", (0, 2), (0, 2), CIVIDIS_TINT),
                 ("VALIGN", (0, 1), (-1, -1), "TOP"),
-                ("ALIGN", (1, 1), (1, 1), "CENTER"),
+                ("ALIGN", (1, 2), (1, 2), "CENTER"),
                 ("LEFTPADDING", (0, 0), (-1, -1), 6),
                 ("RIGHTPADDING", (0, 0), (-1, -1), 6),
                 ("TOPPADDING", (0, 0), (-1, 0), 4),
                 ("BOTTOMPADDING", (0, 0), (-1, 0), 4),
-                ("TOPPADDING", (0, 1), (-1, 1), 6),
-                ("BOTTOMPADDING", (0, 1), (-1, 1), 6),
+                ("TOPPADDING", (0, 1), (-1, -1), 5),
+                ("BOTTOMPADDING", (0, 1), (-1, -1), 5),
             ]
         )
     )
-    return table
+    return KeepTogether([table])
 
 
 def _highest_energy(data: ReportData, styles: dict[str, ParagraphStyle]) -> list[Flowable]:
@@ -516,6 +517,10 @@ def _highest_energy(data: ReportData, styles: dict[str, ParagraphStyle]) -> list
     ]
 
 
+#: Items listed on page 1 under "Items that need a control" (highest energy first).
+SHORT_LIST = 6
+
+
 def _controls(data: ReportData, styles: dict[str, ParagraphStyle]) -> list[Flowable]:
     out: list[Flowable] = [Paragraph("Items that need a control", styles["h3"])]
     if not data.controls:
@@ -526,8 +531,16 @@ def _controls(data: ReportData, styles: dict[str, ParagraphStyle]) -> list[Flowa
     cells = [[Paragraph("item", styles["head"]), Paragraph("control", styles["head"])]]
     cells += [
         [Paragraph(_text(item), styles["cell"]), Paragraph(_text(control), styles["cell"])]
-        for item, control in data.controls
+        for item, control in data.controls[:SHORT_LIST]
     ]
+    if len(data.controls) > SHORT_LIST:
+        more = len(data.controls) - SHORT_LIST
+        cells.append(
+            [
+                Paragraph(f"… and {more} more", styles["cell"]),
+                Paragraph("see the control column of the object table", styles["cell"]),
+            ]
+        )
     table = Table(cells, colWidths=[62 * mm, FRAME_WIDTH - 62 * mm], repeatRows=1, hAlign="LEFT")
     table.setStyle(TableStyle(_grid_style()))
     out.append(table)
