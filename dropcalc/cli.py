@@ -849,14 +849,16 @@ def _write_pdf(results: Any, output: Path) -> int:
 
 
 def _report_lines(summary: dict[str, Any]) -> str:
+    from dropcalc.texts import CAUTION_SHORT, keep_clear
+
     lines = [f"Report written: {summary['pdf']} ({summary['pages']} pages)"]
     for area in summary["work_areas"]:
         lines.append(
-            f"  {area['name']}: keep {area['radius_m']:.3g} m clear "
+            f"  {area['name']}: keep {keep_clear(area['radius_m'])} m clear "
             f"({100 * summary['confidence']:g} % of simulated drops, margin included); "
-            f"worst case {area['worst_case_radius_m']:.3g} m; area {area['area_m2']:,.0f} m²"
+            f"worst case {keep_clear(area['worst_case_radius_m'])} m; "
+            f"area {area['area_m2']:,.0f} m²"
         )
-    from dropcalc.texts import CAUTION_SHORT
 
     lines.append("Caution: " + CAUTION_SHORT)
     return "\n".join(lines)

@@ -9,7 +9,7 @@ import numpy as np
 
 from dropcalc.fall import FallCase, FallResult
 from dropcalc.physics.impact import Impact
-from dropcalc.texts import CAUTION_SHORT
+from dropcalc.texts import CAUTION_SHORT, keep_clear
 from dropcalc.units import format_quantity
 
 
@@ -355,8 +355,9 @@ def zone_statement(result: object, system: str = "si") -> str:
     text = (
         f"{pct} of simulated drops of the {d.obj.name} came to rest within "
         f"{_fmt(rest, 'length', system)} of the release point at the edge, plus a "
-        f"{_fmt(s.margin, 'length', system)} margin: keep {_fmt(d.radius, 'length', system)} "
-        "clear."
+        f"{_fmt(s.margin, 'length', system)} margin: keep "
+        + (f"{keep_clear(d.radius)} m" if system == "si" else _fmt(d.radius, "length", system))
+        + " clear."
     )
     if len(r.objects) > 1:
         text += (

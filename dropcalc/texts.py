@@ -9,3 +9,18 @@ CAUTION_SHORT = (
     "the site's rescue and lifting plans, or local work-at-height law, codes and licensed "
     "practice, which prevail."
 )
+
+
+def keep_clear(value: float) -> str:
+    """A clearance distance rounded up to 0.1 m, as text without the unit (16.81 -> "16.9").
+
+    Rounding up keeps the printed distance on the safe side of the computed one; the small
+    allowance absorbs binary representation (7.3 stays 7.3). Every "keep X m clear" that
+    dropcalc prints goes through here, so the terminal, the JSON summary's wording and the PDF
+    agree.
+    """
+    import math
+
+    if value is None or not math.isfinite(value):
+        return "—"
+    return f"{math.ceil(value * 10 - 1e-9) / 10:.1f}"

@@ -51,6 +51,7 @@ from reportlab.platypus import (
 
 from dropcalc.output import write_atomic
 from dropcalc.report.data import ReportData, WorkAreaResult
+from dropcalc.texts import keep_clear
 
 # --------------------------------------------------------------------------------------------
 # Fonts, colours, styles
@@ -191,18 +192,6 @@ def sig(value: object, digits: int = 3) -> str:
         decimals -= 1
         rounded = round(number, decimals)
     return f"{rounded:.{max(decimals, 0)}f}"
-
-
-def keep_clear(value: float) -> str:
-    """A clearance distance rounded up to 0.1 m, as text without the unit (16.81 -> "16.9").
-
-    Rounding up keeps the printed distance on the safe side of the computed one; the small
-    allowance absorbs binary representation (7.3 stays 7.3).
-    """
-    number = _finite(value)
-    if number is None:
-        return "—"
-    return f"{math.ceil(number * 10 - 1e-9) / 10:.1f}"
 
 
 def _percent(fraction: float) -> str:
