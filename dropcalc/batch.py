@@ -276,15 +276,19 @@ def _resolve_row(
 
 
 def parse_items(
-    frame: pd.DataFrame, library: Library | None, settings: BatchSettings
+    frame: pd.DataFrame, library: Library | None, settings: BatchSettings, first_row: int = 2
 ) -> tuple[list[Item], list[RowError]]:
-    """Resolve every row; rows numbered as a spreadsheet shows them (header = row 1)."""
+    """Resolve every row; rows numbered as a spreadsheet shows them (header = row 1).
+
+    ``first_row`` is the spreadsheet number of the frame's first row (2 for a whole table; more
+    for a later chunk of a long list).
+    """
     from dropcalc.fall import check_object
 
     items: list[Item] = []
     errors: list[RowError] = []
     for index, record in enumerate(frame.to_dict("records")):
-        number = index + 2
+        number = index + first_row
         if not any(str(v).strip() for v in record.values()):
             continue  # blank line
         try:

@@ -501,15 +501,7 @@ def batch(
 ) -> None:
     """Check a list of objects: impact at both drag bounds, levels exceeded, safe heights."""
     try:
-        from dropcalc.batch import (
-            BatchSettings,
-            error_rows,
-            parse_items,
-            read_table,
-            solve_items,
-            sort_rows,
-        )
-        from dropcalc.output import write_rows
+        from dropcalc.batch import BatchSettings
         from dropcalc.reference_levels import DEFAULT_LEVEL_KEYS, reference_level
 
         env = _environment(
@@ -537,31 +529,43 @@ def batch(
         )
         if out is not None and out.suffix.lower() not in (".csv", ".xlsx", ".json"):
             raise InputError(f"--out must end in .csv, .xlsx or .json; got {out.name}")
-        frame = read_table(file)
-        if settings.height is None and "height" not in frame.columns:
-            raise InputError(f"{file.name}: no release height: give --height or a 'height' column")
-        lib = None
-        if "id" in frame.columns:
-            from dropcalc.library import load_library
+        from dropcalc.batch_run import run_batch, stream_json, write_run
+        from dropcalc.library import load_library
 
-            lib = load_library(library)
-        items, errors = parse_items(frame, lib, settings)
-        rows = sort_rows(solve_items(items, settings, _progress(as_json)) + error_rows(errors))
-        if out is not None:
-            write_rows(out, rows)
+        run = run_batch(file, settings, lambda: load_library(library), _progress(as_json))
+        try:
+            if out is not None:
+                write_run(out, run)
+            if as_json:
+                stream_json(sys.stdout, run)
+            else:
+                from dropcalc.render import render_batch
+
+                top = []
+                for row in run.rows():
+                    if len(top) >= 40 or row.get("error"):
+                        break
+                    top.append(row)
+                typer.echo(
+                    render_batch(
+                        top, settings, units.value, run.ignored_columns, out,
+                        total_good=run.good, total_bad=run.bad,
+                    )
+                )  # fmt: skip
+        finally:
+            run.close()
     except DropcalcError as exc:
         _fail(str(exc))
         return
-    if as_json:
-        typer.echo(json.dumps(rows, indent=2, allow_nan=False))
-    else:
-        from dropcalc.render import render_batch
-
-        ignored = frame.attrs.get("ignored_columns", [])
-        typer.echo(render_batch(rows, settings, units.value, ignored, out))
-    for error in errors:
+    for error in run.errors:
         typer.echo(f"dropcalc: {file.name}: row {error.row}: {error.message}", err=True)
-    if errors:
+    if run.bad > len(run.errors):
+        typer.echo(
+            f"dropcalc: {file.name}: {run.bad - len(run.errors)} more failed rows "
+            "(see the error column)",
+            err=True,
+        )
+    if run.bad:
         raise typer.Exit(1)
 
 

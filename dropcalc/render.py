@@ -174,10 +174,18 @@ def render_batch(
     ignored_columns: list[str] | None = None,
     out: object | None = None,
     limit: int = 40,
+    total_good: int | None = None,
+    total_bad: int | None = None,
 ) -> str:
-    """A readable table of batch rows (highest energy first) with a summary and the caution."""
+    """A readable table of batch rows (highest energy first) with a summary and the caution.
+
+    ``rows`` may be just the first rows of a long list; ``total_good`` and ``total_bad`` then
+    give the counts of the whole list.
+    """
     good = [r for r in rows if not r.get("error")]
     bad = [r for r in rows if r.get("error")]
+    n_good = len(good) if total_good is None else total_good
+    n_bad = len(bad) if total_bad is None else total_bad
     header = ("row", "item", "mass", "energy max", "speed max", "J/cm²", "drift max", "control")
     table = []
     for r in good[:limit]:
@@ -212,12 +220,12 @@ def render_batch(
     if good:
         worst = good[0]
         lines.append(
-            f"{len(good)} item(s) solved; highest energy: {worst.get('label') or worst.get('id')} "
+            f"{n_good} item(s) solved; highest energy: {worst.get('label') or worst.get('id')} "
             f"(row {worst['row']}), {_fmt(worst['impact_energy_max_j'] or 0, 'energy', system)} "
             "at its smallest drag area."
         )
-    if bad:
-        lines.append(f"{len(bad)} row(s) failed: see the error lines below and the error column.")
+    if n_bad:
+        lines.append(f"{n_bad} row(s) failed: see the error lines below and the error column.")
     if ignored_columns:
         lines.append(f"Ignored column(s): {', '.join(ignored_columns)}.")
     if any(r.get("glides") for r in good):
