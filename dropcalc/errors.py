@@ -25,6 +25,26 @@ class ModelValidityWarning(UserWarning):
     """A result was computed outside the range where the model or a correlation is valid."""
 
 
+def to_float(name: str, value: object, unit: str = "") -> float:
+    """``float(value)``, with a number too large for a float read as infinite.
+
+    Raises
+    ------
+    InputError
+        When ``value`` is not a number (a text, None, a list), naming the field.
+    """
+    if isinstance(value, bool):
+        raise InputError(f"{name} must be a number{' in ' + unit if unit else ''}; got {value!r}")
+    try:
+        return float(value)  # type: ignore[arg-type]
+    except OverflowError:
+        return float("inf") if value > 0 else float("-inf")  # type: ignore[operator]
+    except (TypeError, ValueError):
+        raise InputError(
+            f"{name} must be a number{' in ' + unit if unit else ''}; got {value!r}"
+        ) from None
+
+
 def require_finite_positive(
     name: str, value: float, unit: str, *, allow_zero: bool = False
 ) -> float:
@@ -46,7 +66,7 @@ def require_finite_positive(
     InputError
         If the value is NaN, infinite, negative, or zero when zero is not allowed.
     """
-    v = float(value)
+    v = to_float(name, value, unit)
     bound = ">= 0" if allow_zero else "> 0"
     ok = v == v and v not in (float("inf"), float("-inf")) and (v >= 0 if allow_zero else v > 0)
     if not ok:
@@ -56,7 +76,7 @@ def require_finite_positive(
 
 def require_range(name: str, value: float, low: float, high: float, unit: str) -> float:
     """Return ``value`` as float if ``low <= value <= high`` and finite, else raise InputError."""
-    v = float(value)
+    v = to_float(name, value, unit)
     if not (v == v and low <= v <= high):
         raise InputError(
             f"{name} must be between {low:g} and {high:g} {unit}; got {value:g} {unit}".rstrip()

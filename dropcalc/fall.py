@@ -13,7 +13,7 @@ from typing import Any
 
 import numpy as np
 
-from dropcalc.errors import InputError, require_finite_positive
+from dropcalc.errors import InputError, require_finite_positive, to_float
 from dropcalc.physics.atmosphere import AirState, air_state
 from dropcalc.physics.drag import drag_parameter
 from dropcalc.physics.impact import Impact, impact_from_solution
@@ -25,6 +25,11 @@ from dropcalc.texts import CAUTION_SHORT
 #: Largest release height the model accepts [m]: the ISA troposphere and the point-mass model
 #: are not meant for more (the site elevation is limited separately to 5000 m).
 MAX_RELEASE_HEIGHT = 5000.0
+#: Smallest release height accepted [m]: a drop from a hand's height, 1 cm.
+MIN_RELEASE_HEIGHT = 0.01
+#: Acceleration of gravity accepted [m/s^2]: anywhere on or near the Earth's surface (normal
+#: gravity 9.780 at the equator to 9.832 at the poles, WGS84; less at altitude).
+GRAVITY_RANGE = (9.7, 9.9)
 #: Mass range accepted [kg]: a 1 g fragment up to a 100 t lifted load.
 MASS_RANGE = (1e-4, 1e5)
 #: Drag area range accepted [m^2].
@@ -36,7 +41,7 @@ CARRIED_AWAY_DISTANCE = 5000.0
 
 
 def _check_range(name: str, value: float, low: float, high: float, unit: str) -> float:
-    v = float(value)
+    v = to_float(name, value, unit)
     if not (math.isfinite(v) and low <= v <= high):
         raise InputError(
             f"{name} must be a finite value from {low:g} to {high:g} {unit}; got {v:g} {unit}"
@@ -69,7 +74,7 @@ def check_object(
     _check_range("mass", mass, *MASS_RANGE, "kg")
     _check_range("drag_area", drag_area, *DRAG_AREA_RANGE, "m²")
     require_finite_positive("height", height, "m")
-    _check_range("height", height, 0.0, MAX_RELEASE_HEIGHT, "m")
+    _check_range("height", height, MIN_RELEASE_HEIGHT, MAX_RELEASE_HEIGHT, "m")
     if drag_area_max is not None:
         _check_range("drag_area_max", drag_area_max, drag_area, DRAG_AREA_RANGE[1], "m²")
     if contact_area is not None:
@@ -125,6 +130,7 @@ class FallCase:
 
     def __post_init__(self) -> None:
         check_object(self.mass, self.drag_area, self.height, self.contact_area, self.drag_area_max)
+        _check_range("gravity", self.gravity, *GRAVITY_RANGE, "m/s²")
         if not math.isfinite(self.edge_azimuth):
             raise InputError(
                 f"edge_azimuth must be a finite angle in degrees; got {self.edge_azimuth}"

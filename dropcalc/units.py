@@ -370,7 +370,10 @@ def parse_quantity(value: str | float | int, kind: str, field: str) -> float:
     """
     spec = _kind(kind)
     if isinstance(value, numbers.Real) and not isinstance(value, bool):
-        number = float(value)
+        try:
+            number = float(value)
+        except OverflowError:
+            number = math.inf
         if not math.isfinite(number):
             raise InputError(
                 f"{field}: {number} is not a finite number; expected {spec.noun} "

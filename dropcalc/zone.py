@@ -28,7 +28,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from dropcalc.errors import InputError
+from dropcalc.errors import InputError, to_float
 from dropcalc.fall import wind_field
 from dropcalc.physics.atmosphere import AirState, air_state
 from dropcalc.physics.release import Release, initial_velocity
@@ -95,6 +95,11 @@ class ZoneObject:
     rolls: bool = False
     glides: bool = False
 
+    def __post_init__(self) -> None:
+        from dropcalc.fall import check_object
+
+        check_object(self.mass, self.drag_area_min, 1.0, None, self.drag_area_max)
+
 
 @dataclass(frozen=True)
 class Uncertainty:
@@ -148,9 +153,12 @@ class Uncertainty:
             ("density_spread", self.density_spread, 0.0, 0.3),
         )
         for name, value, low, high in checks:
+            value = to_float(name, value)
             if not (math.isfinite(value) and low <= value <= high):
                 raise InputError(f"{name} must be between {low:g} and {high:g}; got {value:g}")
-        if self.turbulence_intensity is not None and not (0.0 <= self.turbulence_intensity <= 0.6):
+        if self.turbulence_intensity is not None and not (
+            0.0 <= to_float("turbulence_intensity", self.turbulence_intensity) <= 0.6
+        ):
             raise InputError(
                 f"turbulence_intensity must be between 0 and 0.6; got {self.turbulence_intensity}"
             )
@@ -175,14 +183,26 @@ class ZoneSettings:
     max_samples: int = MAX_SAMPLES
 
     def __post_init__(self) -> None:
-        if not (math.isfinite(self.height) and 0 < self.height <= 5000):
-            raise InputError(
-                f"height must be a finite length from 0 to 5000 m; got {self.height:g} m"
-            )
+        height = to_float("height", self.height, "m")
+        if not (math.isfinite(height) and 0 < height <= 5000):
+            raise InputError(f"height must be a finite length > 0 and <= 5000 m; got {height:g} m")
         if not (0.5 <= self.confidence <= 0.9999):
             raise InputError(f"confidence must be between 0.5 and 0.9999; got {self.confidence:g}")
         if not (math.isfinite(self.margin) and 0 <= self.margin <= 100):
             raise InputError(f"margin must be between 0 and 100 m; got {self.margin:g} m")
+        from dropcalc.fall import GRAVITY_RANGE
+
+        g_low, g_high = GRAVITY_RANGE
+        if not (g_low <= self.gravity <= g_high):
+            raise InputError(
+                f"gravity must be between {g_low:g} and {g_high:g} m/s²; got {self.gravity:g}"
+            )
+        if not math.isfinite(self.edge_azimuth):
+            raise InputError(f"edge_azimuth must be a finite angle; got {self.edge_azimuth}")
+        if isinstance(self.seed, bool) or not isinstance(self.seed, int) or self.seed < 0:
+            raise InputError(f"seed must be a whole number >= 0; got {self.seed!r}")
+        if not (isinstance(self.max_samples, int) and self.max_samples >= 1000):
+            raise InputError(f"max_samples must be a whole number >= 1000; got {self.max_samples}")
         if not (0.001 <= self.relative_error <= 0.2):
             raise InputError(
                 f"relative_error must be between 0.001 and 0.2; got {self.relative_error:g}"

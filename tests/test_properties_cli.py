@@ -20,12 +20,20 @@ Examples run per entry point on one run (hypothesis ``max_examples``; all are ru
 failure is found): root command line 40, ``fall`` 150, ``batch`` 80, ``zone`` 50,
 ``objects`` 50, ``objects show`` 40; 410 in all. Run ``pytest -s`` to print the counts.
 
-Failures found and kept as strict xfail regression tests at the end of this file:
+Failures found and kept as strict xfail regression tests at the end of this file (the random
+strategies leave out their triggers, so that the properties guard everything else):
 
-- ``zone --seed -5``: numpy's ``default_rng`` raises ValueError, a traceback and exit 1.
-- ``zone`` with a light object in strong wind (``--mass "1 g" --drag-area 0.1 --wind 30``):
-  numpy prints a RuntimeWarning ("invalid value encountered in scalar subtract") on stderr
-  from ``quantile_with_error`` when the quantile's order statistics are infinite.
+- a user file in Latin-1 (``--library`` CSV or TOML, ``batch --policy`` TOML): an uncaught
+  UnicodeDecodeError, a traceback and exit 1;
+- a value with a line break (``fall --height "1<LF>2"``, ``objects show "a<LF>b"``) is echoed raw,
+  so the error message takes two lines;
+- ``zone --height 30 --mass "1 g" --drag-area 0.1 --wind 30 --barricade 50`` (14 s): numpy
+  prints "RuntimeWarning: invalid value encountered in scalar subtract" on stderr from
+  ``dropcalc.zone.quantile_with_error`` when every sample is carried away; pinned at that
+  function, which takes no time.
+
+Found and since fixed in the library by another change: ``zone --seed -5`` raised numpy's
+ValueError (now "seed must be a whole number >= 0").
 """
 
 from __future__ import annotations
@@ -35,6 +43,7 @@ import contextlib
 import enum
 import json
 import math
+import re
 import warnings
 from collections.abc import Iterator
 from pathlib import Path
@@ -104,7 +113,7 @@ WORDS = [
     "", " ", "abc", "nan", "NaN", "inf", "-inf", "Infinity", "1e309", "-0", "0", "1,500 m",
     "12,5 kg", "5 s", "12 lb", "5 ft 3 in", "0x10", "1_000", "½", "٣", "５", "10 m m", "m",
     "kg/", "%", "°", "None", "null", "true", "--json", "-", "--", "=1+1", "@SUM(A1)",
-    "\x00", "\n", "1\n2", "😀", "ü", "x" * 100_000, "9" * 100_000, "1" + "0" * 400,
+    "\x00", "\t", "\x1e", "\u2028", "😀", "ü", "x" * 100_000, "9" * 100_000, "1" + "0" * 400,
 ]  # fmt: skip
 
 
@@ -126,6 +135,12 @@ CHEAP_NUMBER = st.one_of(
 )
 
 
+#: Text without CR and LF: a line break echoed in a message is a known defect (see the end).
+TEXT = st.text(alphabet=st.characters(exclude_characters="\r\n"), max_size=20)
+#: User files not in UTF-8: known to crash --library and --policy (see the end).
+NOT_UTF8 = ("garbage.csv", "latin1.csv", "garbage.toml")
+
+
 def _values(numbers: st.SearchStrategy[Any]) -> st.SearchStrategy[str]:
     with_unit = st.tuples(numbers, st.sampled_from(UNITS)).map(
         lambda pair: _number_text(pair[0]) + pair[1]
@@ -133,7 +148,7 @@ def _values(numbers: st.SearchStrategy[Any]) -> st.SearchStrategy[str]:
     return st.one_of(
         with_unit,
         st.sampled_from(WORDS),
-        st.text(max_size=20),
+        TEXT,
         st.text(alphabet="0123456789.,-+eE %", max_size=12),
     )
 
@@ -190,7 +205,9 @@ def _option_values(option: typer.core.TyperOption, files: dict[str, str], cheap:
     if isinstance(kind, type) and issubclass(kind, enum.Enum):
         values = st.one_of(st.sampled_from([str(c.value) for c in kind]), values)
     elif kind is Path:
-        values = st.one_of(st.sampled_from(sorted(files.values())), values)
+        paths = [p for name, p in files.items() if option.name not in ("library", "policy")
+                 or name not in NOT_UTF8]  # fmt: skip
+        values = st.one_of(st.sampled_from(sorted(paths)), values)
     return st.tuples(name, values).map(lambda pair: [pair[0], pair[1]])
 
 
@@ -208,7 +225,7 @@ def _command_lines(
     extra = st.one_of(*(_option_values(o, files, cheap) for o in options))
     junk = st.one_of(
         st.sampled_from([["--bogus"], ["--bogus", "1"], ["stray"], ["-x"], ["--"], [""]]),
-        st.text(max_size=10).map(lambda t: [t]),
+        TEXT.map(lambda t: [t]),
     )
 
     @st.composite
@@ -257,7 +274,8 @@ def check_run(result: Any, args: list[str], allowed: frozenset[int] = frozenset(
     # numpy's RuntimeWarnings are printed as two raw lines (file and source) on a terminal.
     stray = [w for w in result.caught_warnings if issubclass(w.category, RuntimeWarning)]
     assert not stray, f"{shown}\nwarning printed on stderr: {stray[0].message}"
-    lines = [line for line in result.stderr.splitlines() if line.strip()]
+    # Lines as a terminal shows them: split at CR and LF only (not at \x1e or U+2028).
+    lines = [line for line in re.split(r"\r\n|\r|\n", result.stderr) if line.strip()]
     if result.exit_code == 2:
         assert len(lines) == 1, f"{shown}\n{result.stderr[:1000]}"
         assert lines[0].startswith("dropcalc:"), f"{shown}\n{lines[0][:300]}"
@@ -269,7 +287,8 @@ def check_run(result: Any, args: list[str], allowed: frozenset[int] = frozenset(
     text = result.stdout.strip()
     if result.exit_code in (0, 1) and text.startswith(("{", "[")):
         json.loads(text, parse_constant=_reject_constant)  # one value, no NaN or Infinity
-        assert "NaN" not in text and "Infinity" not in text, shown
+        assert "NaN" not in text, shown
+        assert "Infinity" not in text, shown
 
 
 # --------------------------------------------------------------------------------------------
@@ -278,7 +297,7 @@ def check_run(result: Any, args: list[str], allowed: frozenset[int] = frozenset(
 
 
 @given(data=st.data())
-@settings(COMMON, max_examples=40)
+@settings(COMMON, max_examples=60)
 def test_root_command_line(data: st.DataObject) -> None:
     names = [*ROOT.commands, "objects show", "help", "--help", "falls", ""]
     words = st.one_of(st.sampled_from(names), ANY_VALUE)
@@ -295,7 +314,7 @@ FALL_BASE = [["--height", "10 m"], ["--mass", "1 kg"], ["--drag-area", "0.01 m2"
 
 
 @given(data=st.data())
-@settings(COMMON, max_examples=150)
+@settings(COMMON, max_examples=300)
 def test_fall_random_arguments(files: dict[str, str], data: st.DataObject) -> None:
     args = data.draw(_command_lines(("fall",), FALL_BASE, files))
     EXAMPLES["fall"] += 1
@@ -303,7 +322,7 @@ def test_fall_random_arguments(files: dict[str, str], data: st.DataObject) -> No
 
 
 @given(data=st.data())
-@settings(COMMON, max_examples=80)
+@settings(COMMON, max_examples=150)
 def test_batch_random_arguments(files: dict[str, str], data: st.DataObject) -> None:
     path = data.draw(st.sampled_from(sorted(files.values())))
     base = [["--height", "10 m"], ["--json"]]
@@ -320,11 +339,15 @@ ZONE_EXCLUDED = frozenset({"--precision", "--barricade", "--site", "--plot", "--
 
 
 @given(data=st.data())
-@settings(COMMON, max_examples=50)
+@settings(COMMON, max_examples=80)
 def test_zone_random_arguments(files: dict[str, str], data: st.DataObject) -> None:
     args = data.draw(
         _command_lines(
-            ("zone",), ZONE_BASE, files, cheap=True, excluded=ZONE_EXCLUDED,
+            ("zone",),
+            ZONE_BASE,
+            files,
+            cheap=True,
+            excluded=ZONE_EXCLUDED,
             tail=("--precision", "0.2"),
         )  # fmt: skip
     )
@@ -333,7 +356,7 @@ def test_zone_random_arguments(files: dict[str, str], data: st.DataObject) -> No
 
 
 @given(data=st.data())
-@settings(COMMON, max_examples=50)
+@settings(COMMON, max_examples=80)
 def test_objects_random_arguments(files: dict[str, str], data: st.DataObject) -> None:
     args = data.draw(_command_lines(("objects",), [["--json"]], files))
     EXAMPLES["objects"] += 1
@@ -341,7 +364,7 @@ def test_objects_random_arguments(files: dict[str, str], data: st.DataObject) ->
 
 
 @given(data=st.data())
-@settings(COMMON, max_examples=40)
+@settings(COMMON, max_examples=60)
 def test_objects_show_random_arguments(files: dict[str, str], data: st.DataObject) -> None:
     object_id = data.draw(st.one_of(st.sampled_from(["claw-hammer-16oz", "claw-hamer"]), ANY_VALUE))
     line = data.draw(_command_lines(("objects", "show"), [["--json"]], files))
@@ -353,3 +376,75 @@ def test_objects_show_random_arguments(files: dict[str, str], data: st.DataObjec
 # --------------------------------------------------------------------------------------------
 # Regressions found by the properties above (minimised reproducers)
 # --------------------------------------------------------------------------------------------
+
+
+def _one_message_line(result: Any) -> str:
+    assert result.exception is None or isinstance(result.exception, SystemExit), repr(
+        result.exception
+    )
+    assert result.exit_code == 2, result.output
+    lines = [line for line in re.split(r"\r\n|\r|\n", result.stderr) if line.strip()]
+    assert len(lines) == 1, result.stderr
+    assert lines[0].startswith("dropcalc: error: "), lines[0]
+    return lines[0]
+
+
+LATIN_1_FILES = {
+    "library-csv": ("hammer.csv", b"id,name\nx,H\xe4mmer\n", ["objects", "--library"]),
+    "library-toml": (
+        "hammer.toml", b'[[object]]\nid = "x"\nname = "H\xe4"\n', ["objects", "--library"]
+    ),
+    "policy-toml": (
+        "rules.toml", b'[[rule]]\ncontrol = "\xe4"\n', ["batch", "ITEMS", "--height", "10",
+        "--policy"],
+    ),
+}  # fmt: skip
+
+
+@pytest.mark.xfail(
+    strict=True,
+    reason="a user file in Latin-1 raises an uncaught UnicodeDecodeError (traceback, exit 1)",
+)
+@pytest.mark.parametrize(("name", "content", "command"), LATIN_1_FILES.values(), ids=LATIN_1_FILES)
+def test_user_file_in_latin_1_is_refused_with_one_line(
+    tmp_path: Path, name: str, content: bytes, command: list[str]
+) -> None:
+    user_file = tmp_path / name
+    user_file.write_bytes(content)
+    items = tmp_path / "items.csv"
+    items.write_text("id\nclaw-hammer-16oz\n", encoding="utf-8")
+    args = [str(items) if a == "ITEMS" else a for a in command] + [str(user_file)]
+    line = _one_message_line(invoke(args))
+    assert name in line, line
+
+
+@pytest.mark.xfail(
+    strict=True, reason="a value with a line break is echoed raw: the message takes two lines"
+)
+@pytest.mark.parametrize(
+    "args",
+    [
+        ["fall", "--height", "1\n2", "--mass", "1 kg", "--drag-area", "0.01"],
+        ["objects", "show", "a\nb"],
+    ],
+    ids=["fall-height", "objects-show"],
+)
+def test_a_line_break_in_a_value_keeps_the_message_on_one_line(args: list[str]) -> None:
+    _one_message_line(invoke(args))
+
+
+@pytest.mark.xfail(
+    strict=True,
+    reason="quantile_with_error computes inf - inf when every sample is carried away: numpy "
+    "prints a RuntimeWarning on stderr (seen with zone --height 30 --mass '1 g' "
+    "--drag-area 0.1 --wind 30 --barricade 50)",
+)
+def test_quantile_of_samples_all_carried_away_warns_nothing() -> None:
+    import numpy as np
+
+    from dropcalc.zone import quantile_with_error
+
+    with warnings.catch_warnings():
+        warnings.simplefilter("error")
+        value, error = quantile_with_error(np.full(200, np.nan), 0.99)
+    assert value == math.inf

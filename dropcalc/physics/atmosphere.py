@@ -81,7 +81,12 @@ def _checked(
     name: str, values: ArrayLike, bounds: tuple[float, float], unit: str, note: str = ""
 ) -> NDArray:
     """Return ``values`` as a float array, or raise InputError naming the first bad element."""
-    array = np.asarray(values, dtype=float)
+    try:
+        array = np.asarray(values, dtype=float)
+    except OverflowError:
+        raise InputError(f"{name} must be a finite number; got {values!r:.40}") from None
+    except (TypeError, ValueError):
+        raise InputError(f"{name} must be a number; got {values!r:.40}") from None
     low, high = bounds
     bad = ~((array >= low) & (array <= high))  # NaN compares False, so it is caught here
     if bad.any():

@@ -12,6 +12,8 @@ def as_samples(name: str, value: ArrayLike) -> NDArray[np.float64]:
     """Return ``value`` as a float array of dimension 0 or 1, else raise InputError."""
     try:
         array = np.asarray(value, dtype=float)
+    except OverflowError:
+        raise InputError(f"{name} must be a finite number; got {value!r:.40}") from None
     except (TypeError, ValueError):
         raise InputError(
             f"{name} must be a number or a 1-D array of numbers; got {value!r}"
@@ -24,3 +26,20 @@ def as_samples(name: str, value: ArrayLike) -> NDArray[np.float64]:
 def first_bad(array: NDArray, good: NDArray) -> float:
     """First element of ``array`` where ``good`` is False (NaN counts as bad)."""
     return float(np.broadcast_to(array, np.shape(good))[~good].flat[0])
+
+
+#: Acceleration of gravity accepted by the physics entries that take it from a user [m/s^2]:
+#: anywhere on or near the Earth's surface (WGS84 normal gravity 9.780-9.832, less at altitude).
+GRAVITY_RANGE = (9.7, 9.9)
+
+
+def check_gravity(gravity: ArrayLike) -> NDArray[np.float64]:
+    """Return ``gravity`` as an array, or raise InputError if outside :data:`GRAVITY_RANGE`."""
+    g = as_samples("gravity", gravity)
+    good = (g >= GRAVITY_RANGE[0]) & (g <= GRAVITY_RANGE[1])
+    if not np.all(good):
+        raise InputError(
+            f"gravity must be between {GRAVITY_RANGE[0]:g} and {GRAVITY_RANGE[1]:g} m/s² "
+            f"(the Earth's surface); got {first_bad(g, good):g} m/s²"
+        )
+    return g

@@ -37,6 +37,7 @@ from numpy.typing import ArrayLike, NDArray
 
 from dropcalc.errors import InputError, UnknownObjectError
 from dropcalc.physics.checks import as_samples as _as_samples
+from dropcalc.physics.checks import check_gravity
 from dropcalc.physics.checks import first_bad as _first_bad
 from dropcalc.physics.constants import STANDARD_GRAVITY
 
@@ -562,13 +563,7 @@ def _check_range(
 
 
 def _checked_gravity(gravity: ArrayLike) -> NDArray[np.float64]:
-    g = _as_samples("gravity", gravity)
-    good = np.isfinite(g) & (g > 0)
-    if not np.all(good):
-        raise InputError(
-            f"gravity must be a finite acceleration > 0 m/s^2; got {_first_bad(g, good):g} m/s^2"
-        )
-    return g
+    return check_gravity(gravity)
 
 
 def _broadcast_length(fields: dict[str, ArrayLike]) -> int | None:

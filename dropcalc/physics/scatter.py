@@ -63,6 +63,7 @@ from numpy.typing import ArrayLike, NDArray
 
 from dropcalc.errors import InputError, UnknownObjectError
 from dropcalc.physics.checks import as_samples as _as_samples
+from dropcalc.physics.checks import check_gravity
 from dropcalc.physics.checks import first_bad as _first_bad
 from dropcalc.physics.constants import STANDARD_GRAVITY
 
@@ -319,7 +320,7 @@ def hop_distance(
         raise InputError(
             f"hops must be a whole number >= 0 (or infinity); got {_first_bad(count, good):g}"
         )
-    g = _check_positive("gravity", gravity, "m/s^2")
+    g = check_gravity(gravity)
     _common_length(
         vertical_speed=v_n,
         horizontal_speed=v_h,
@@ -413,7 +414,7 @@ def scatter_distance(
     e_n = _check_restitution("normal_restitution", normal_restitution)
     e_t = _check_restitution("tangential_restitution", tangential_restitution)
     mu = _check_positive("friction", friction, "")
-    g = _check_positive("gravity", gravity, "m/s^2")
+    g = check_gravity(gravity)
     stop = _as_samples("stop_speed", stop_speed)
     good = np.isfinite(stop) & (stop >= 0)
     if not np.all(good):
@@ -649,7 +650,7 @@ def fragment_allowance(
     J. Walker, "Fundamentals of Physics", 10th ed., Wiley, 2014, ch. 4 (from memory).
     """
     speed = _check_speed("impact_speed", impact_speed)
-    g = _check_positive("gravity", gravity, "m/s^2")
+    g = check_gravity(gravity)
     fraction = float(speed_fraction)
     if not 0.0 < fraction <= 1.0:
         raise InputError(f"speed_fraction must be in (0, 1]; got {speed_fraction:g}")
@@ -710,14 +711,23 @@ def _fragment_range(speed: NDArray, g: NDArray, fraction: float) -> NDArray[np.f
 # --- checks ----------------------------------------------------------------------------------
 
 
+#: Impact speeds accepted [m/s]: far above any fall on a site; beyond it is an input mistake.
+MAX_IMPACT_SPEED = 1000.0
+#: Friction and rolling-resistance coefficients accepted [-].
+COEFFICIENT_RANGE = (1e-4, 1e12)
+
+
 def _check_speed(name: str, value: ArrayLike) -> NDArray[np.float64]:
     array = _as_samples(name, value)
-    good = np.isfinite(array) & (array >= 0)
+    good = (array >= 0) & (array <= MAX_IMPACT_SPEED)  # NaN compares False
     if not np.all(good):
         raise InputError(
-            f"{name} must be a finite speed >= 0 m/s; got {_first_bad(array, good):g} m/s"
+            f"{name} must be a finite speed from 0 to {MAX_IMPACT_SPEED:g} m/s; "
+            f"got {_first_bad(array, good):g} m/s"
         )
-    return array
+    # Speeds below a nanometre per second are zero for every purpose here (and would
+    # underflow in the hop series).
+    return np.where(array < 1e-9, 0.0, array)
 
 
 def _check_restitution(name: str, value: ArrayLike) -> NDArray[np.float64]:
@@ -730,11 +740,12 @@ def _check_restitution(name: str, value: ArrayLike) -> NDArray[np.float64]:
 
 def _check_positive(name: str, value: ArrayLike, unit: str) -> NDArray[np.float64]:
     array = _as_samples(name, value)
-    good = np.isfinite(array) & (array > 0)
+    good = (array >= COEFFICIENT_RANGE[0]) & (array <= COEFFICIENT_RANGE[1])
     if not np.all(good):
         unit = f" {unit}" if unit else ""
         raise InputError(
-            f"{name} must be finite and > 0{unit}; got {_first_bad(array, good):g}{unit}"
+            f"{name} must be finite and > 0{unit} (from {COEFFICIENT_RANGE[0]:g} to "
+            f"{COEFFICIENT_RANGE[1]:g}); got {_first_bad(array, good):g}{unit}"
         )
     return array
 

@@ -239,20 +239,29 @@ def normalise_shape(name: str) -> str:
     )
 
 
+#: Dimensions accepted [m]: a 10 micrometre flake to a 1 km structure; anything outside is a
+#: typing or unit mistake, and would overflow or underflow the area products.
+DIMENSION_RANGE = (1e-5, 1000.0)
+
+
 def _length(name: str, value: object) -> FloatArray:
     """One dimension as a float array, checked finite and > 0."""
     try:
         array = np.asarray(value, dtype=float)
-    except (TypeError, ValueError):
-        raise InputError(f"{name} must be a finite length > 0 m; got {value!r}") from None
+    except (TypeError, ValueError, OverflowError):
+        raise InputError(f"{name} must be a finite length > 0 m; got {value!r:.40}") from None
     if array.ndim > 1:
         raise InputError(f"{name} must be a float or a 1-D array; got an array of {array.ndim} D")
-    bad = ~(np.isfinite(array) & (array > 0.0))
+    low, high = DIMENSION_RANGE
+    bad = ~((array >= low) & (array <= high))  # NaN compares False
     if np.any(bad):
         flat = np.atleast_1d(array)
         index = int(np.flatnonzero(np.atleast_1d(bad))[0])
         where = f" (row {index})" if array.ndim == 1 else ""
-        raise InputError(f"{name} must be a finite length > 0 m; got {flat[index]:g} m{where}")
+        raise InputError(
+            f"{name} must be a finite length > 0 m (from {low:g} to {high:g} m); "
+            f"got {flat[index]:g} m{where}"
+        )
     return array
 
 

@@ -609,7 +609,7 @@ def _advance(
     # the distance left at the current horizontal speed, with a little slack to cross it.
     horizontal = np.hypot(state[0], state[1])
     horizontal_speed = np.hypot(state[3], state[4])
-    with np.errstate(divide="ignore"):
+    with np.errstate(divide="ignore", over="ignore"):
         distance_time = (max_distance - horizontal) / horizontal_speed
     time_left = np.minimum(max_time - params[_T], distance_time)
     params[_H] = np.minimum(new_h, np.maximum(1.01 * time_left, 1e-3 * new_h))

@@ -30,7 +30,13 @@ from typing import Literal
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
-from dropcalc.errors import InputError, ModelValidityWarning, UnknownObjectError, require_range
+from dropcalc.errors import (
+    InputError,
+    ModelValidityWarning,
+    UnknownObjectError,
+    require_range,
+    to_float,
+)
 from dropcalc.physics.constants import (
     ASCE_MINIMUM_HEIGHT,
     DEFAULT_GUST_FACTOR,
@@ -729,7 +735,7 @@ def _nearest_en_minimum_height(roughness_length: float) -> float:
 
 
 def _validate_speed(speed_10m: float) -> float:
-    speed = float(speed_10m)
+    speed = to_float("speed_10m", speed_10m, "m/s")
     if math.isfinite(speed) and speed > MAXIMUM_WIND_SPEED:
         raise InputError(
             f"speed_10m must be between 0 and {MAXIMUM_WIND_SPEED:g} m/s; got {speed:g} m/s: "
@@ -795,10 +801,12 @@ def wind_spec(
     speed = _validate_speed(speed_10m)
     if kind not in SPEED_KINDS:
         raise InputError(f"kind must be one of {', '.join(SPEED_KINDS)}; got {kind!r}")
-    direction = float(from_direction)
+    direction = to_float("from_direction", from_direction, "deg")
     if not math.isfinite(direction):
         raise InputError(f"from_direction must be a finite angle in deg; got {direction:g} deg")
     direction = direction % 360.0
+    if direction >= 360.0:  # a tiny negative angle rounds up to 360.0
+        direction = 0.0
     if profile is not None and profile not in PROFILE_KINDS:
         raise InputError(f"profile must be one of {', '.join(PROFILE_KINDS)}; got {profile!r}")
     if exponent is not None:
