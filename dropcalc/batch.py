@@ -570,7 +570,10 @@ def _solve_chunk(items: Sequence[Item], settings: BatchSettings) -> list[dict[st
         epa = None if item.contact_area is None else num(per_area[i])
         warnings = []
         if not landed:
-            warnings.append("carried away by the wind: no landing within the solver's range")
+            warnings.append(
+                f"carried away by the wind: still airborne {CARRIED_AWAY_DISTANCE / 1000:g} km "
+                "downwind, no landing can be given"
+            )
         if item.glides:
             warnings.append("sheet or plate: can glide far in wind; drift not conservative")
         if (

@@ -271,11 +271,14 @@ def write_run(path: Path, run: BatchRun) -> None:
         from openpyxl import Workbook
 
         book = Workbook(write_only=True)
-        sheet = book.create_sheet("dropcalc batch")
-        sheet.append(columns)
-        for row in run.rows():
-            sheet.append(cells(row))
-        book.save(target)
+        try:
+            sheet = book.create_sheet("dropcalc batch")
+            sheet.append(columns)
+            for row in run.rows():
+                sheet.append(cells(row))
+            book.save(target)
+        finally:
+            book.close()  # a failed save must not leave the archive to the garbage collector
 
     def write_json(target: Path) -> None:
         with target.open("w", encoding="utf-8") as handle:

@@ -27,6 +27,7 @@ class _OneLineErrors(TyperGroup):
         except typer.TyperException as exc:  # usage errors: bad choice, unknown option
             message = exc.format_message().strip()
             if message:  # empty when no arguments were given and the help was shown
+                message = message.replace("\r", "\\r").replace("\n", "\\n")
                 typer.echo(f"dropcalc: error: {message}", err=True)
             code = exc.exit_code
         except typer.Exit as exc:
@@ -132,6 +133,8 @@ _OPTION_OF_FIELD = {
 
 def _fail(message: str) -> None:
     """Print one error line to stderr, naming the option where the model named a field."""
+    # A value the user typed may hold a line break; show it escaped, keeping one line.
+    message = message.replace("\r", "\\r").replace("\n", "\\n")
     first = message.split(" ", 1)[0].rstrip(":")
     option = _OPTION_OF_FIELD.get(first)
     if option is not None:
@@ -887,7 +890,7 @@ def demo(
         source = data_path("templates") / "demo"
         out.mkdir(parents=True, exist_ok=True)
         for name in ("scenario.toml", "items.csv"):
-            shutil.copyfile(source / name, out / name)
+            write_atomic(out / name, lambda p, n=name: shutil.copyfile(source / n, p))
         loaded = load_scenario(out / "scenario.toml")
         results = build_results(loaded, out / "figures", _progress(as_json))
         pdf = out / "report.pdf"

@@ -36,8 +36,10 @@ MASS_RANGE = (1e-4, 1e5)
 DRAG_AREA_RANGE = (1e-7, 200.0)
 #: Contact area range accepted [m^2].
 CONTACT_AREA_RANGE = (1e-8, 10.0)
-#: Horizontal distance after which an object still airborne is reported as carried away [m].
-CARRIED_AWAY_DISTANCE = 5000.0
+#: Horizontal distance after which an object still airborne is reported as carried away [m]:
+#: a site's drop zone is measured in metres to tens of metres; an object that the wind takes
+#: beyond a kilometre is windborne debris, not a drop the zone can bound.
+CARRIED_AWAY_DISTANCE = 1000.0
 
 
 def _check_range(name: str, value: float, low: float, high: float, unit: str) -> float:
@@ -294,12 +296,16 @@ def solve_fall(case: FallCase) -> FallResult:
     impacts = [_pick(impact, i) for i in range(len(speeds))]
     max_drag = [_pick(impact, n + i) if case.drag_area_max is not None else None for i in range(n)]
     warnings: list[str] = []
-    if not impacts[0].landed[0]:
-        warnings.append(
-            f"carried away: still airborne {CARRIED_AWAY_DISTANCE / 1000:g} km downwind; "
-            "no landing point or impact can be given for this wind (a windborne object: the "
-            "drop zone cannot be bounded by this model)"
-        )
+    labels = [case.wind.kind] + (["estimated gust"] if gust_speed is not None else [])
+    for label, impact_i, impact_max in zip(labels, impacts, max_drag, strict=True):
+        gone = [not impact_i.landed[0]] + ([] if impact_max is None else [not impact_max.landed[0]])
+        if any(gone):
+            where = "at its smallest drag area" if gone[0] else "at its largest drag area"
+            warnings.append(
+                f"carried away in the {label} wind {where}: followed "
+                f"{CARRIED_AWAY_DISTANCE / 1000:g} km downwind and still airborne; no landing "
+                "point or impact can be given (windborne debris: no drop zone can bound it)"
+            )
     slowest = impacts[0] if max_drag[0] is None else max_drag[0]
     vt = float(slowest.terminal_speed[0])
     if case.wind.speed_10m > 0 and vt < case.wind.speed_10m:

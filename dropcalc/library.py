@@ -501,7 +501,10 @@ _TABLE_RE = re.compile(r"^\s*\[\[\s*object\s*\]\]")
 
 def _read_toml(path: Path, *, builtin: bool) -> list[DropObject]:
     """Read and validate the objects of one TOML file."""
-    text = path.read_text(encoding="utf-8")
+    try:
+        text = path.read_text(encoding="utf-8")
+    except UnicodeDecodeError:
+        raise InputError(f"{path.name}: not UTF-8 text; save the file as UTF-8") from None
     try:
         document = tomllib.loads(text)
     except tomllib.TOMLDecodeError as error:
@@ -563,8 +566,11 @@ class _TomlLocator:
 # --- Reading CSV ---------------------------------------------------------------------------------
 def _read_csv(path: Path) -> list[DropObject]:
     """Read and validate the objects of one CSV file (header = row 1)."""
-    with path.open(newline="", encoding="utf-8-sig") as handle:
-        rows = list(csv.reader(handle))
+    try:
+        with path.open(newline="", encoding="utf-8-sig") as handle:
+            rows = list(csv.reader(handle))
+    except UnicodeDecodeError:
+        raise InputError(f"{path.name}: not UTF-8 text; save the file as UTF-8") from None
     if not rows:
         raise InputError(f"{path.name}: the file is empty; row 1 must name the columns")
     header = [name.strip() for name in rows[0]]

@@ -155,6 +155,8 @@ def load_policy(path: Path) -> tuple[ControlRule, ...]:
         data = tomllib.loads(Path(path).read_text(encoding="utf-8-sig"))
     except OSError as exc:
         raise InputError(f"{path}: cannot read the policy file ({exc.strerror})") from None
+    except UnicodeDecodeError:
+        raise InputError(f"{path}: not UTF-8 text; save the policy file as UTF-8") from None
     except tomllib.TOMLDecodeError as exc:
         raise InputError(f"{path}: not valid TOML ({exc})") from None
     raw_rules = data.get("rule")

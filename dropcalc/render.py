@@ -7,7 +7,7 @@ import textwrap
 
 import numpy as np
 
-from dropcalc.fall import FallCase, FallResult
+from dropcalc.fall import CARRIED_AWAY_DISTANCE, FallCase, FallResult
 from dropcalc.physics.impact import Impact
 from dropcalc.texts import CAUTION_SHORT, keep_clear
 from dropcalc.units import format_quantity
@@ -20,6 +20,8 @@ def _v(array: np.ndarray | None) -> float:
 def _fmt(value: float, kind: str, system: str, digits: int = 3) -> str:
     if not math.isfinite(value):
         return "—"
+    if abs(value) < 1e-9:  # rounding residue of a vertical fall (3.8e-16 m/s) reads as zero
+        value = 0.0
     return format_quantity(value, kind, system, digits)
 
 
@@ -410,7 +412,8 @@ def render_zone(
         if z.carried_away > 0:
             lines.extend(textwrap.wrap(
                 f"WARNING: {100 * z.carried_away:.2g} % of drops of {z.obj.name} were "
-                "carried beyond 5 km by the wind: it is windborne and no zone can bound it.",
+                f"carried beyond {CARRIED_AWAY_DISTANCE / 1000:g} km by the wind: it is "
+                "windborne and no zone can bound it.",
                 90))  # fmt: skip
     lines.extend(textwrap.wrap(zone_statement(r, system), 90))
     lines.append("")

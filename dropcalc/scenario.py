@@ -329,9 +329,13 @@ def load_scenario(path: Path) -> Scenario:
             height = quantity(raw_edge["height"], "length", f"{edge_key}.height")
             name = text_of(raw_edge.get("name", f"edge {e}"), f"{edge_key}.name")
             edges.append(
-                model(edge_key, lambda n=name, p=raw_edge["points"], h=height: WorkEdge(n, p, h))
+                model(
+                    edge_key,
+                    lambda n=name, p=raw_edge["points"], h=height: WorkEdge(n, p, h),
+                    {"work": f"{edge_key}.points", "points": f"{edge_key}.points"},
+                )
             )
-        site = model(f"{key}", lambda e=edges: Site(outline, tuple(e)))
+        site = model(f"{key}", lambda e=edges: Site(outline, tuple(e)), {"outline": "site.outline"})
         name = text_of(raw.get("name", f"work area {a}"), f"{key}.name")
         areas.append(WorkArea(name, release, site))
 

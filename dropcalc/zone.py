@@ -29,7 +29,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from dropcalc.errors import InputError, to_float
-from dropcalc.fall import wind_field
+from dropcalc.fall import CARRIED_AWAY_DISTANCE, wind_field
 from dropcalc.physics.atmosphere import AirState, air_state
 from dropcalc.physics.release import Release, initial_velocity
 from dropcalc.physics.scatter import (
@@ -57,8 +57,8 @@ MAX_SAMPLES = 1_280_000
 DEFAULT_RELATIVE_ERROR = 0.01
 #: Added to the envelope's grid-search maximum for the search's own error [m].
 ENVELOPE_SEARCH_ALLOWANCE = 0.001
-#: Horizontal distance after which a sample counts as carried away [m].
-CARRIED_AWAY = 5000.0
+#: Horizontal distance after which a sample counts as carried away [m] (the same as ``fall``).
+CARRIED_AWAY = CARRIED_AWAY_DISTANCE
 
 
 @dataclass(frozen=True)
@@ -359,6 +359,7 @@ def _rest_positions(
         dy = np.where(horizontal > 1e-9, v[1] / horizontal, math.cos(out))
     rest = landing + extra * np.vstack([dx, dy])
     rest[:, ~solution.landed] = np.nan
+    drift = np.where(solution.landed, drift, np.nan)  # abandoned samples did not land
     return rest, drift, solution.landed
 
 
@@ -407,6 +408,8 @@ def quantile_with_error(distances: np.ndarray, p: float) -> tuple[float, float]:
     ranks = n * p + np.array([-1.0, 0.0, 1.0]) * 1.96 * math.sqrt(n * p * (1 - p))
     idx = np.clip(np.round(ranks).astype(int) - 1, 0, n - 1)
     values = np.partition(d, np.unique(idx))[idx]
+    if not np.all(np.isfinite(values)):  # the interval reaches carried-away samples
+        return float(values[1]), math.inf
     return float(values[1]), float((values[2] - values[0]) / (2 * 1.96))
 
 
@@ -556,10 +559,14 @@ def compute_zone(
         q = np.array([s[0] for s in stats])
         se = np.array([s[1] for s in stats])
         lead = int(np.argmax(q))
-        contenders = [i for i in range(len(objects)) if q[i] + 2 * se[i] >= q[lead] - 2 * se[lead]]
+        with np.errstate(invalid="ignore"):  # inf - inf where samples were carried away
+            contenders = [
+                i for i in range(len(objects)) if not q[i] + 2 * se[i] < q[lead] - 2 * se[lead]
+            ]
         unsure = [
             i for i in contenders
-            if se[i] > settings.relative_error * max(q[i], 1e-3)
+            if math.isfinite(q[i])  # a quantile among carried-away samples is settled: no zone
+            and se[i] > settings.relative_error * max(q[i], 1e-3)
             and counts[i] < settings.max_samples
         ]  # fmt: skip
         active = unsure
@@ -578,7 +585,11 @@ def compute_zone(
                 obj=obj,
                 radius=q_rest + settings.margin,
                 drift=min(q_drift, q_rest),
-                scatter=max(q_rest - q_drift, 0.0),
+                scatter=(
+                    max(q_rest - q_drift, 0.0)
+                    if math.isfinite(q_rest) and math.isfinite(q_drift)
+                    else math.inf
+                ),
                 standard_error=se_rest,
                 samples=int(distance.size),
                 max_sampled=float(finite.max()) if finite.size else math.inf,

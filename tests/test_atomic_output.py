@@ -636,12 +636,6 @@ def test_disk_full_mid_write_keeps_the_old_file_for_every_writer(
 # ---------------------------------------------------------------------------------------------
 
 
-@pytest.mark.xfail(
-    strict=True,
-    reason="dropcalc demo --out FOLDER copies scenario.toml and items.csv with shutil.copyfile "
-    "straight onto the target (cli.demo), not through write_atomic: a copy that fails half-way "
-    "(disk full) leaves a truncated scenario.toml in place of the old one",
-)
 def test_demo_copy_failure_keeps_the_old_scenario(
     tmp_path: Path, monkeypatch: pytest.MonkeyPatch
 ) -> None:
