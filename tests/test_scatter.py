@@ -444,7 +444,9 @@ def test_bad_input_names_the_field(kwargs: dict, field: str) -> None:
 
 
 def test_bad_fragment_and_hop_inputs_name_the_field() -> None:
-    with pytest.raises(InputError, match="impact_speed must be a finite speed >= 0 m/s; got -3"):
+    with pytest.raises(
+        InputError, match="impact_speed must be a finite speed from 0 to 1000 m/s; got -3"
+    ):
         fragment_allowance(-3.0)
     with pytest.raises(InputError, match="speed_fraction"):
         fragment_allowance(3.0, speed_fraction=1.5)

@@ -259,8 +259,8 @@ def _length(name: str, value: object) -> FloatArray:
         index = int(np.flatnonzero(np.atleast_1d(bad))[0])
         where = f" (row {index})" if array.ndim == 1 else ""
         raise InputError(
-            f"{name} must be a finite length > 0 m (from {low:g} to {high:g} m); "
-            f"got {flat[index]:g} m{where}"
+            f"{name} must be a finite length > 0 m; got {flat[index]:g} m{where} "
+            f"(allowed: {low:g} to {high:g} m)"
         )
     return array
 

@@ -506,6 +506,10 @@ def _implicit_step(
     return new_state, slope_new, _error_ratio(error, state, new_state, params, tolerance)
 
 
+#: Steps after which a lane is abandoned (landed False): no fall needs a thousandth of this, so
+#: reaching it means the step control has failed, and the caller must not wait for ever.
+MAX_STEPS = 200_000
+
 #: Trajectories advanced together in one block: large enough to amortise numpy's per-call
 #: cost, small enough for the working arrays (~40 rows of 8 bytes each) to fit in cache.
 LANE_BLOCK = 16384
@@ -612,12 +616,14 @@ def _advance(
     with np.errstate(divide="ignore", over="ignore"):
         distance_time = (max_distance - horizontal) / horizontal_speed
     time_left = np.minimum(max_time - params[_T], distance_time)
-    params[_H] = np.minimum(new_h, np.maximum(1.01 * time_left, 1e-3 * new_h))
+    # 1 % and a microsecond past the limit, so the next step reaches it (a relative floor
+    # would let steps shrink geometrically short of it forever).
+    params[_H] = np.minimum(new_h, np.maximum(1.01 * time_left, 0.0) + 1e-6)
 
     at_kink = contact & (floor > 0.0)
     params[_FLOOR, at_kink] = 0.0
     contact &= ~at_kink
-    beyond = (params[_T] > max_time) | (horizontal > max_distance)
+    beyond = (params[_T] > max_time) | (horizontal > max_distance) | (params[_STEPS] > MAX_STEPS)
     contact &= ~beyond  # a landing past a limit is not a landing within it
     abandoned = ~contact & beyond
     finished = contact | abandoned
