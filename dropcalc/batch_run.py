@@ -270,15 +270,17 @@ def write_run(path: Path, run: BatchRun) -> None:
     def write_xlsx(target: Path) -> None:
         from openpyxl import Workbook
 
+        # The workbook is zipped in memory (compressed, ~100 bytes a row) and then written as
+        # plain bytes: a full disk then fails one ordinary write, instead of leaving openpyxl's
+        # half-written zip archive to raise again from the garbage collector.
         book = Workbook(write_only=True)
-        try:
-            sheet = book.create_sheet("dropcalc batch")
-            sheet.append(columns)
-            for row in run.rows():
-                sheet.append(cells(row))
-            book.save(target)
-        finally:
-            book.close()  # a failed save must not leave the archive to the garbage collector
+        sheet = book.create_sheet("dropcalc batch")
+        sheet.append(columns)
+        for row in run.rows():
+            sheet.append(cells(row))
+        buffer = io.BytesIO()
+        book.save(buffer)
+        target.write_bytes(buffer.getvalue())
 
     def write_json(target: Path) -> None:
         with target.open("w", encoding="utf-8") as handle:
