@@ -383,7 +383,7 @@ def safe_heights(
         initial_velocity(settings.release, settings.edge_azimuth, settings.gravity), dtype=float
     ).reshape(-1)[:3]
     speed0 = float(np.linalg.norm(v0))
-    with np.errstate(divide="ignore"):
+    with np.errstate(divide="ignore", over="ignore"):
         vt = np.sqrt(g / k)
     # Energy at release already above the level: any height exceeds it.
     result[0.5 * masses * speed0**2 >= energy_levels] = 0.0

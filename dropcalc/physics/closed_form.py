@@ -185,6 +185,6 @@ def height_to_reach_fraction(
         Acceleration of gravity. [m/s^2]
     """
     f = np.asarray(fraction, dtype=float)
-    with np.errstate(divide="ignore"):
+    with np.errstate(divide="ignore", over="ignore"):
         vt2 = np.asarray(gravity, dtype=float) / np.asarray(drag_parameter, dtype=float)
     return -vt2 / (2.0 * np.asarray(gravity, dtype=float)) * np.log1p(-(f**2))

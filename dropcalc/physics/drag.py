@@ -117,7 +117,7 @@ def terminal_speed(
     quadratic drag", Am. J. Phys. 67 (1999) 538-546.
     """
     k = drag_parameter(density, drag_area_m2, mass)
-    with np.errstate(divide="ignore"):
+    with np.errstate(divide="ignore", over="ignore"):
         return np.sqrt(np.asarray(gravity, dtype=float) / k)
 
 

@@ -120,7 +120,7 @@ def impact_from_solution(
     drift = np.hypot(solution.position[0], solution.position[1]) * nan_unless_landed
     azimuth = np.degrees(np.arctan2(solution.position[0], solution.position[1])) % 360.0
 
-    with np.errstate(divide="ignore"):
+    with np.errstate(divide="ignore", over="ignore"):
         terminal = np.sqrt(g / k) * np.ones_like(speed)
     wind = wind or WindField()
     ratio = speed_ratio(

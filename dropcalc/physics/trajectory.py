@@ -316,7 +316,7 @@ def solve_falls(
             todo = ~vertical
 
     # Rise above the release point (vertical, still air) bounds the height to fall.
-    with np.errstate(divide="ignore", invalid="ignore"):
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
         terminal_sq = (g / k) ** 2 if linear else g / k
         rise = np.where(vz0 > 0, terminal_sq / (2 * g) * np.log1p(vz0 * vz0 / terminal_sq), 0.0)
         fall_height = g * (h0 + rise) / terminal_sq
@@ -544,7 +544,7 @@ def _start_lanes(
     wind_speed = np.hypot(params[_WX], params[_WY])
     speed0 = np.sqrt(np.sum(state[3:6] ** 2, axis=0))
     free_fall_speed = np.sqrt(2.0 * params[_G] * state[2])
-    with np.errstate(divide="ignore"):
+    with np.errstate(divide="ignore", over="ignore"):
         terminal = params[_G] / params[_K] if model.linear else np.sqrt(params[_G] / params[_K])
         relaxation = 1.0 / params[_K] if model.linear else terminal / params[_G]
     speed_scale = np.minimum(free_fall_speed, terminal) + speed0 + wind_speed
@@ -591,7 +591,7 @@ def _advance(
     contact = accept & ~crossed & (np.abs(z_new) <= lanes.ground_tolerance)
     moved = accept & ~crossed
 
-    with np.errstate(divide="ignore"):
+    with np.errstate(divide="ignore", over="ignore"):
         factor = np.clip(0.9 * error_ratio ** (-1.0 / order), 0.2, 5.0)
     factor = np.where(accept, factor, np.minimum(factor, 0.9))
     new_h = h * factor
