@@ -117,7 +117,9 @@ def _xlsx_chunks(path: Path) -> Iterator[tuple[int, Any]]:
     from openpyxl import load_workbook
 
     try:
-        book = load_workbook(path, read_only=True, data_only=True)
+        # Formulas are read as their text ("=1+1"): dropcalc does not evaluate them, so a
+        # formula in a number cell is refused with its row rather than read as empty.
+        book = load_workbook(path, read_only=True, data_only=False)
     except Exception as exc:  # openpyxl raises several kinds for files it cannot read
         raise InputError(f"{path}: cannot read the workbook ({exc})") from None
     try:
