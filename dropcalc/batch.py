@@ -20,7 +20,7 @@ from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
-from dropcalc.errors import DropcalcError, InputError
+from dropcalc.errors import DropcalcError, InputError, require_file, shorten
 from dropcalc.fall import CARRIED_AWAY_DISTANCE, wind_field
 from dropcalc.physics.atmosphere import AirState, air_state
 from dropcalc.physics.drag import drag_parameter
@@ -63,6 +63,8 @@ QUANTITY_COLUMNS = {
     "wall_thickness": "length",
 }
 KNOWN_COLUMNS = frozenset({*TEXT_COLUMNS, "quantity", *QUANTITY_COLUMNS})
+#: Largest item count on one row (more is a typing error, not a job list).
+MAX_QUANTITY = 1_000_000
 
 
 @dataclass(frozen=True)
@@ -149,9 +151,7 @@ def read_table(path: Path) -> pd.DataFrame:
     """
     import pandas as pd
 
-    path = Path(path)
-    if not path.is_file():
-        raise InputError(f"{path}: no such file")
+    path = require_file(path, "object list")
     suffix = path.suffix.lower()
     try:
         if suffix in (".xlsx", ".xlsm"):
@@ -213,11 +213,15 @@ def _resolve_row(
     label = _cell(record, "label")
     count_text = _cell(record, "quantity") or "1"
     try:
-        count = int(float(count_text.replace(",", ".")))
+        count_value = float(count_text.replace(",", "."))
     except ValueError:
-        raise InputError(f"quantity must be a whole number >= 1; got {count_text!r}") from None
-    if count < 1 or float(count_text.replace(",", ".")) != count:
-        raise InputError(f"quantity must be a whole number >= 1; got {count_text!r}")
+        count_value = math.nan
+    if not (count_value.is_integer() and 1 <= count_value <= MAX_QUANTITY):
+        raise InputError(
+            f"quantity must be a whole number from 1 to {MAX_QUANTITY:,}; "
+            f"got {shorten(repr(count_text), 40)}"
+        )
+    count = int(count_value)
     height = quantity("height") or settings.height
     if height is None:
         raise InputError("height is missing: give a 'height' column or --height for the list")

@@ -27,7 +27,7 @@ from dropcalc.batch import (
     parse_items,
     solve_items,
 )
-from dropcalc.errors import InputError
+from dropcalc.errors import InputError, require_file, require_suffix
 
 #: Rows read, solved and sorted at a time.
 CHUNK_ROWS = 10_000
@@ -73,9 +73,7 @@ def iter_chunks(path: Path) -> Iterator[tuple[int, Any]]:
     """
     import pandas as pd
 
-    path = Path(path)
-    if not path.is_file():
-        raise InputError(f"{path}: no such file")
+    path = require_file(path, "object list")
     suffix = path.suffix.lower()
     if suffix in (".xlsx", ".xlsm"):
         yield from _xlsx_chunks(path)
@@ -254,9 +252,7 @@ def write_run(path: Path, run: BatchRun) -> None:
     """Write the merged rows as CSV, XLSX or JSON (by suffix), streaming, atomically."""
     from dropcalc.output import OUTPUT_FORMATS, write_atomic
 
-    suffix = Path(path).suffix.lower()
-    if suffix not in OUTPUT_FORMATS:
-        raise InputError(f"--out must end in {', '.join(OUTPUT_FORMATS)}; got {Path(path).name}")
+    suffix = require_suffix(path, OUTPUT_FORMATS, "--out")
     columns = run.columns
 
     def cells(row: dict[str, Any]) -> list[Any]:

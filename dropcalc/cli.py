@@ -13,7 +13,7 @@ from typing import Annotated, Any
 import typer
 from typer.core import TyperGroup
 
-from dropcalc.errors import DropcalcError, InputError
+from dropcalc.errors import DropcalcError, InputError, require_suffix, shorten
 
 
 class _OneLineErrors(TyperGroup):
@@ -35,6 +35,10 @@ class _OneLineErrors(TyperGroup):
         except typer.Abort:
             typer.echo("dropcalc: aborted", err=True)
             code = 1
+        except OSError as exc:  # a file the commands did not foresee: still one line, exit 2
+            name = shorten(exc.filename, 120) if exc.filename else "a file"
+            typer.echo(f"dropcalc: error: cannot use {name}: {exc.strerror or exc}", err=True)
+            code = 2
         if standalone_mode:
             sys.exit(code)
         return code
@@ -446,8 +450,8 @@ def fall(
             object_name=obj.name if obj is not None else None,
             glides=bool(obj.glides) if obj is not None else False,
         )
-        if plot is not None and plot.suffix.lower() not in (".png", ".svg"):
-            raise InputError(f"--plot must end in .png or .svg; got {plot.name}")
+        if plot is not None:
+            require_suffix(plot, (".png", ".svg"), "--plot")
         result = solve_fall(case)
         if plot is not None:
             from dropcalc.report.figures import fall_figure
@@ -530,8 +534,8 @@ def batch(
             levels=tuple(reference_level(k) for k in keys),
             rules=DEFAULT_RULES if policy is None else load_policy(policy),
         )
-        if out is not None and out.suffix.lower() not in (".csv", ".xlsx", ".json"):
-            raise InputError(f"--out must end in .csv, .xlsx or .json; got {out.name}")
+        if out is not None:
+            require_suffix(out, (".csv", ".xlsx", ".json"), "--out")
         from dropcalc.batch_run import run_batch, stream_json, write_run
         from dropcalc.library import load_library
 
@@ -966,8 +970,7 @@ def objects(
         if csv is not None:
             from dropcalc.output import write_rows
 
-            if csv.suffix.lower() != ".csv":
-                raise InputError(f"--csv must end in .csv; got {csv.name}")
+            require_suffix(csv, (".csv",), "--csv")
             flat = [
                 {**{k: r[k] for k in _OBJECT_COLUMNS if k != "hazards"},
                  "hazards": "; ".join(r["hazards"])}

@@ -8,6 +8,8 @@ field, the value given and what is allowed, e.g.
 
 from __future__ import annotations
 
+from pathlib import Path
+
 
 class DropcalcError(Exception):
     """Base class of every error dropcalc raises on purpose."""
@@ -82,3 +84,52 @@ def require_range(name: str, value: float, low: float, high: float, unit: str) -
             f"{name} must be between {low:g} and {high:g} {unit}; got {value:g} {unit}".rstrip()
         )
     return v
+
+
+def shorten(text: object, limit: int = 80) -> str:
+    """``str(text)`` cut to ``limit`` characters with an ellipsis, for quoting user text."""
+    shown = str(text)
+    return shown if len(shown) <= limit else shown[: limit - 1] + "…"
+
+
+def require_file(path: object, what: str) -> Path:
+    """Return ``path`` as a :class:`~pathlib.Path` if it names a readable regular file.
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        The file the user named.
+    what : str
+        What the file is for, used in the message ("object list", "site file").
+
+    Raises
+    ------
+    InputError
+        If the file does not exist, is a folder, or its name cannot be looked up at all (a name
+        too long for the file system, a NUL byte); the message names the file and the reason.
+    """
+    shown = shorten(path, 120)
+    try:
+        file = Path(path)  # type: ignore[arg-type]
+        if file.is_file():
+            return file
+        reason = "is a folder, not a file" if file.is_dir() else "no such file"
+    except (OSError, ValueError) as exc:  # ENAMETOOLONG, ELOOP, EACCES on a parent; NUL byte
+        reason = getattr(exc, "strerror", None) or str(exc)
+    raise InputError(f"{what} {shown}: {reason}")
+
+
+def require_suffix(path: object, allowed: tuple[str, ...], field: str) -> str:
+    """Return the lower-case suffix of ``path`` (".csv") if it is one of ``allowed``.
+
+    Raises
+    ------
+    InputError
+        Naming ``field``, the allowed suffixes and the file name given (shortened if long).
+    """
+    name = Path(str(path)).name
+    suffix = Path(name).suffix.lower()
+    if suffix not in allowed:
+        listed = ", ".join(allowed[:-1]) + " or " + allowed[-1] if len(allowed) > 1 else allowed[0]
+        raise InputError(f"{field} must end in {listed}; got {shorten(name, 80)}")
+    return suffix

@@ -29,7 +29,7 @@ from pathlib import Path
 from types import MappingProxyType
 from typing import Any
 
-from dropcalc.errors import InputError, UnknownObjectError
+from dropcalc.errors import InputError, UnknownObjectError, require_file
 from dropcalc.physics import shapes
 from dropcalc.resources import data_path
 from dropcalc.units import parse_quantity
@@ -460,9 +460,7 @@ def load_library(extra: Path | str | None = None) -> Library:
     builtin = _builtin_library()
     if extra is None:
         return builtin
-    path = Path(extra)
-    if not path.is_file():
-        raise InputError(f"object file not found: {path}")
+    path = require_file(extra, "object file")
     suffix = path.suffix.lower()
     if suffix == ".toml":
         user = _read_toml(path, builtin=False)

@@ -13,7 +13,7 @@ from collections.abc import Callable, Sequence
 from pathlib import Path
 from typing import Any
 
-from dropcalc.errors import InputError
+from dropcalc.errors import InputError, require_suffix, shorten
 
 OUTPUT_FORMATS = (".csv", ".xlsx", ".json")
 
@@ -27,10 +27,14 @@ def write_atomic(path: Path, write: Callable[[Path], None]) -> None:
         If the folder does not exist or cannot be written; the target is left untouched.
     """
     path = Path(path)
+    shown = shorten(path, 120)
     folder = path.parent if str(path.parent) else Path(".")
-    if not folder.is_dir():
-        raise InputError(f"{path}: the folder {folder} does not exist")
-    fd, temporary = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=folder)
+    try:
+        if not folder.is_dir():
+            raise InputError(f"{shown}: the folder {shorten(folder, 120)} does not exist")
+        fd, temporary = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=folder)
+    except OSError as exc:  # a name too long for the file system, a folder we may not write in
+        raise InputError(f"{shown}: cannot write ({exc.strerror})") from None
     os.close(fd)
     try:
         write(Path(temporary))
@@ -40,7 +44,7 @@ def write_atomic(path: Path, write: Callable[[Path], None]) -> None:
         os.chmod(temporary, 0o666 & ~umask)
         os.replace(temporary, path)
     except OSError as exc:
-        raise InputError(f"{path}: cannot write ({exc.strerror})") from None
+        raise InputError(f"{shown}: cannot write ({exc.strerror})") from None
     finally:
         if os.path.exists(temporary):
             os.unlink(temporary)
@@ -50,9 +54,7 @@ def write_rows(path: Path, rows: Sequence[dict[str, Any]]) -> None:
     """Write result rows as CSV, XLSX or JSON, chosen by the file suffix."""
     from dropcalc.batch import rows_frame
 
-    suffix = Path(path).suffix.lower()
-    if suffix not in OUTPUT_FORMATS:
-        raise InputError(f"--out must end in {', '.join(OUTPUT_FORMATS)}; got {Path(path).name}")
+    suffix = require_suffix(path, OUTPUT_FORMATS, "--out")
     if suffix == ".json":
         text = json.dumps(list(rows), indent=2, allow_nan=False)
         write_atomic(path, lambda p: p.write_text(text + "\n", encoding="utf-8"))

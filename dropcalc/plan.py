@@ -34,7 +34,7 @@ from shapely.geometry import (
 from shapely.geometry.base import BaseGeometry
 from shapely.geometry.polygon import orient
 
-from dropcalc.errors import InputError, require_finite_positive, require_range
+from dropcalc.errors import InputError, require_finite_positive, require_range, shorten
 from dropcalc.physics.constants import WGS84_INVERSE_FLATTENING, WGS84_SEMI_MAJOR_AXIS
 
 #: Offset from a segment's midpoint used to decide which side faces away from the outline [m].
@@ -672,7 +672,9 @@ def load_site(path: Path) -> SitePlan:
     try:
         data = tomllib.loads(path.read_text(encoding="utf-8-sig"))
     except OSError as exc:
-        raise InputError(f"{path}: cannot read the site file ({exc.strerror})") from None
+        raise InputError(
+            f"{shorten(path, 120)}: cannot read the site file ({exc.strerror})"
+        ) from None
     except tomllib.TOMLDecodeError as exc:
         raise InputError(f"{path}: not valid TOML ({exc})") from None
     unknown = set(data) - {"origin", "outline", "edge"}

@@ -17,7 +17,7 @@ from typing import Any
 
 from shapely.geometry import MultiPolygon, Polygon
 
-from dropcalc.errors import InputError
+from dropcalc.errors import InputError, require_suffix
 from dropcalc.output import write_atomic
 from dropcalc.plan import ExclusionArea, Site, segment_normals
 
@@ -192,9 +192,7 @@ def plot_plan(
         cannot be written.
     """
     path = Path(path)
-    suffix = path.suffix.lower()
-    if suffix not in PLOT_FORMATS:
-        raise InputError(f"plan file must end in {', '.join(PLOT_FORMATS)}; got {path.name}")
+    suffix = require_suffix(path, PLOT_FORMATS, "plan file")
     if wind_toward_deg is not None and not math.isfinite(float(wind_toward_deg)):
         raise InputError(
             f"wind_toward_deg must be a finite bearing in degrees; got {wind_toward_deg}"

@@ -29,7 +29,7 @@ from collections.abc import Sequence
 from dataclasses import dataclass
 from pathlib import Path
 
-from dropcalc.errors import InputError
+from dropcalc.errors import InputError, shorten
 from dropcalc.reference_levels import REFERENCE_LEVELS
 
 
@@ -154,7 +154,9 @@ def load_policy(path: Path) -> tuple[ControlRule, ...]:
     try:
         data = tomllib.loads(Path(path).read_text(encoding="utf-8-sig"))
     except OSError as exc:
-        raise InputError(f"{path}: cannot read the policy file ({exc.strerror})") from None
+        raise InputError(
+            f"{shorten(path, 120)}: cannot read the policy file ({exc.strerror})"
+        ) from None
     except UnicodeDecodeError:
         raise InputError(f"{path}: not UTF-8 text; save the policy file as UTF-8") from None
     except tomllib.TOMLDecodeError as exc:

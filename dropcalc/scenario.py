@@ -18,7 +18,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
-from dropcalc.errors import DropcalcError, InputError
+from dropcalc.errors import DropcalcError, InputError, shorten
 
 #: Tables and keys a scenario may have (anything else is a mistake, reported as such).
 _KEYS: dict[str, set[str]] = {
@@ -158,7 +158,9 @@ def load_scenario(path: Path) -> Scenario:
     try:
         raw_bytes = path.read_bytes()
     except OSError as exc:
-        raise InputError(f"{path}: cannot read the scenario ({exc.strerror})") from None
+        raise InputError(
+            f"{shorten(path, 120)}: cannot read the scenario ({exc.strerror})"
+        ) from None
     try:
         text = raw_bytes.decode("utf-8-sig")
         data = tomllib.loads(text)

@@ -402,6 +402,9 @@ claw-hammer-16oz,both,1 kg,,
 ,minus,1 kg,0.004 m2,-1
 ,letter,1 kg,0.004 m2,x
 brick-uk-standard,good id,,,3
+,infinite,1 kg,0.004 m2,inf
+,absurd,1 kg,0.004 m2,2e6
+,nan,1 kg,0.004 m2,nan
 """
 
 # Row number (header = row 1) -> words its error must contain.
@@ -414,6 +417,9 @@ BAD_ROW_REASONS = {
     8: ("quantity", "2.5"),
     9: ("quantity", "-1"),
     10: ("quantity", "'x'"),
+    12: ("quantity", "'inf'", "1,000,000"),  # raised OverflowError before (found by hypothesis)
+    13: ("quantity", "'2e6'", "1,000,000"),
+    14: ("quantity", "'nan'"),
 }
 
 
@@ -650,7 +656,7 @@ def test_out_with_failed_rows_writes_every_row(tmp_path):
     assert result.exit_code == 1, result.output
     with out.open(encoding="utf-8", newline="") as handle:
         records = list(csv.DictReader(handle))
-    assert len(records) == 10
+    assert len(records) == len(BAD_ROWS.splitlines()) - 1  # every row but the header
     assert sum(1 for r in records if r["error"]) == len(BAD_ROW_REASONS)
 
 

@@ -362,7 +362,7 @@ def test_disk_error_is_reported_and_keeps_the_old_file(
 @pytest.mark.parametrize(
     ("call", "message"),
     [
-        (lambda d: side_view(d / "a.pdf", _cases()[:1], 20.0), r"\.png, \.svg; got a\.pdf"),
+        (lambda d: side_view(d / "a.pdf", _cases()[:1], 20.0), r"\.png or \.svg; got a\.pdf"),
         (lambda d: side_view(d / "a.png", [], 20.0), "at least one fall"),
         (lambda d: side_view(d / "a.png", _cases()[:1], math.nan), "height must be"),
         (lambda d: energy_height(d / "a.jpg", _curves(), [], 30.0), "got a\\.jpg"),

@@ -439,7 +439,7 @@ def test_toml_syntax_error_and_bad_extension(tmp_path):
     assert toml_error(tmp_path, "[[object]\n").startswith("my_objects.toml: not valid TOML")
     with pytest.raises(InputError, match=r"must end in \.toml or \.csv"):
         load_library(write(tmp_path, "objects.xlsx", ""))
-    with pytest.raises(InputError, match="object file not found"):
+    with pytest.raises(InputError, match="object file .*: no such file"):
         load_library(tmp_path / "missing.toml")
 
 

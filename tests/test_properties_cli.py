@@ -410,6 +410,58 @@ def test_user_file_in_latin_1_is_refused_with_one_line(
     assert name in line, line
 
 
+# Found in CI by test_objects_random_arguments: a 300-character file name made the file system
+# raise ENAMETOOLONG from Path.is_file(), which escaped as a traceback.
+LONG_NAME = "x" * 300
+LONG_PNG = LONG_NAME + ".png"
+LONG_NAME_COMMANDS = {
+    "objects-library": ["objects", "--library", LONG_NAME],
+    "batch-list": ["batch", LONG_NAME, "--height", "10"],
+    "batch-xlsx": ["batch", LONG_NAME + ".xlsx", "--height", "10"],
+    "batch-output": ["batch", "ITEMS", "--height", "10", "--out", LONG_NAME + ".csv"],
+    "batch-policy": ["batch", "ITEMS", "--height", "10", "--policy", LONG_NAME],
+    "zone-site": ["zone", "--site", LONG_NAME, "--object", "claw-hammer-16oz", "--height", "10"],
+    "zone-plot": [
+        "zone",
+        "--object",
+        "claw-hammer-16oz",
+        "--height",
+        "10",
+        "--plot",
+        LONG_NAME + ".png",
+    ],
+    "fall-plot": [
+        "fall",
+        "--object",
+        "claw-hammer-16oz",
+        "--height",
+        "10",
+        "--plot",
+        LONG_NAME + ".png",
+    ],
+    "report": ["report", LONG_NAME],
+    "report-output": ["report", "SCENARIO", "-o", LONG_NAME + ".pdf"],
+}
+
+
+@pytest.mark.parametrize("command", LONG_NAME_COMMANDS.values(), ids=LONG_NAME_COMMANDS)
+def test_a_file_name_too_long_for_the_file_system_gives_one_line(
+    tmp_path: Path, command: list[str]
+) -> None:
+    items = tmp_path / "items.csv"
+    items.write_text("id\nclaw-hammer-16oz\n", encoding="utf-8")
+    from dropcalc.resources import data_path
+
+    scenario = data_path("templates") / "demo" / "scenario.toml"
+    swap = {"ITEMS": str(items), "SCENARIO": str(scenario)}
+    args = [swap.get(a, a) for a in command]
+    with pytest.MonkeyPatch.context() as patch:
+        patch.chdir(tmp_path)
+        line = _one_message_line(invoke(args))
+    assert "x" * 40 in line, line  # the file is named
+    assert "x" * 200 not in line, line  # but not quoted whole
+
+
 @pytest.mark.parametrize(
     "args",
     [

@@ -42,7 +42,7 @@ from typing import TYPE_CHECKING, Any
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
-from dropcalc.errors import InputError
+from dropcalc.errors import InputError, require_suffix
 from dropcalc.output import write_atomic
 from dropcalc.physics.constants import STANDARD_GRAVITY
 from dropcalc.physics.trajectory import WindField, solve_falls
@@ -506,10 +506,7 @@ def _case_paths(cases: Sequence[SideViewCase], max_distance: float) -> list[NDAr
 
 
 def _figure_format(path: Path, what: str) -> str:
-    suffix = path.suffix.lower()
-    if suffix not in FIGURE_FORMATS:
-        raise InputError(f"{what} file must end in {', '.join(FIGURE_FORMATS)}; got {path.name}")
-    return suffix.lstrip(".")
+    return require_suffix(path, FIGURE_FORMATS, f"{what} file").lstrip(".")
 
 
 def _save(figure: Any, path: Path, image_format: str) -> None:
