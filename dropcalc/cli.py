@@ -892,6 +892,7 @@ def demo(
         from dropcalc.scenario import load_scenario
 
         source = data_path("templates") / "demo"
+        _refuse_to_overwrite_edits(out, source, ("scenario.toml", "items.csv"))
         out.mkdir(parents=True, exist_ok=True)
         for name in ("scenario.toml", "items.csv"):
             write_atomic(out / name, lambda p, n=name: shutil.copyfile(source / n, p))
@@ -922,6 +923,22 @@ def demo(
         return
     typer.echo(_report_lines(summary))
     typer.echo(f"Demo files in {out}/: " + ", ".join(Path(f).name for f in files.values()))
+
+
+def _refuse_to_overwrite_edits(out: Path, source: Path, names: tuple[str, ...]) -> None:
+    """Raise InputError if a demo input in ``out`` differs from the shipped one (user edits)."""
+    for name in names:
+        target = out / name
+        try:
+            edited = target.is_file() and target.read_bytes() != (source / name).read_bytes()
+        except OSError as exc:
+            raise InputError(f"{shorten(target, 120)}: cannot read ({exc.strerror})") from None
+        if edited:
+            raise InputError(
+                f"{shorten(target, 120)} differs from the demo's copy (edited?); the demo will not "
+                f"overwrite it. Run `dropcalc report {shorten(out / 'scenario.toml', 120)}` for "
+                "your own version, or give the demo another --out folder"
+            )
 
 
 objects_app = typer.Typer(

@@ -634,10 +634,14 @@ def test_demo_copy_failure_keeps_the_old_scenario(
     tmp_path: Path, monkeypatch: pytest.MonkeyPatch
 ) -> None:
     """Expected: like every other output, the demo's copies are whole or absent: an error
-    mid-copy leaves the old scenario.toml byte-identical and no temporary file."""
+    mid-copy leaves the old scenario.toml byte-identical and no temporary file. (The old file
+    is the demo's own copy from an earlier run: an edited one is never overwritten, below.)"""
+    from dropcalc.resources import data_path
+
+    shipped = (data_path("templates") / "demo" / "scenario.toml").read_bytes()
     out = tmp_path / "démo x"
     out.mkdir()
-    (out / "scenario.toml").write_bytes(OLD)
+    (out / "scenario.toml").write_bytes(shipped)
 
     def copyfile(source: Any, destination: Any, **kwargs: Any) -> Any:
         data = Path(source).read_bytes()
@@ -647,8 +651,25 @@ def test_demo_copy_failure_keeps_the_old_scenario(
     monkeypatch.setattr(shutil, "copyfile", copyfile)
     result = invoke("demo", "--out", str(out))
     assert result.exit_code != 0
-    assert (out / "scenario.toml").read_bytes() == OLD
+    assert (out / "scenario.toml").read_bytes() == shipped
     assert listing(out) == ["scenario.toml"]
+
+
+@pytest.mark.parametrize("name", ["scenario.toml", "items.csv"])
+def test_demo_never_overwrites_an_edited_input(tmp_path: Path, name: str) -> None:
+    """Expected: a user who edited the demo's scenario or item list in its folder keeps the
+    edits: the demo refuses (exit 2, one line naming the file and what to do) and writes
+    nothing."""
+    out = tmp_path / "demo"
+    out.mkdir()
+    (out / name).write_bytes(OLD)
+    result = invoke("demo", "--out", str(out))
+    assert result.exit_code == 2, result.output
+    assert name in result.stderr
+    assert "dropcalc report" in result.stderr
+    assert len(result.stderr.strip().splitlines()) == 1
+    assert (out / name).read_bytes() == OLD
+    assert listing(out) == [name]
 
 
 # ---------------------------------------------------------------------------------------------
