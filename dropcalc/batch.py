@@ -117,6 +117,9 @@ class Item:
     height: float
     glides: bool
     fragile: bool
+    #: True when the row gave its own height; False when it took the list's default (which a
+    #: report may then set per work area).
+    height_given: bool = False
 
 
 @dataclass(frozen=True)
@@ -222,7 +225,8 @@ def _resolve_row(
             f"got {shorten(repr(count_text), 40)}"
         )
     count = int(count_value)
-    height = quantity("height") or settings.height
+    own_height = quantity("height")
+    height = own_height or settings.height
     if height is None:
         raise InputError("height is missing: give a 'height' column or --height for the list")
     contact = quantity("contact_area")
@@ -276,6 +280,7 @@ def _resolve_row(
         height=float(height),
         glides=glides,
         fragile=fragile,
+        height_given=own_height is not None,
     )
 
 

@@ -281,7 +281,7 @@ def _release(
     carrier_velocity: str | None = None,
 ) -> Any:
     """The release model from the options (raises InputError)."""
-    from dropcalc.physics.release import Release
+    from dropcalc.physics.release import DEFAULT_ROOF_FRICTION, Release
 
     speed = _q(release_speed, "speed", "--release-speed")
     if mode in ("push", "throw") and speed is None:
@@ -294,7 +294,11 @@ def _release(
         angle=_q(release_angle, "angle", "--release-angle") or 0.0,
         roof_pitch=_q(roof_pitch, "angle", "--roof-pitch") or 0.0,
         roof_length=_q(roof_length, "length", "--roof-length") or 0.0,
-        friction=friction if friction is not None else (0.4 if mode == "roof-slide" else 0.0),
+        friction=(
+            friction
+            if friction is not None
+            else (DEFAULT_ROOF_FRICTION if mode == "roof-slide" else 0.0)
+        ),
         rolling=rolling,
         carrier_velocity=_carrier(carrier_velocity),
     )
@@ -372,7 +376,8 @@ def fall(
         str | None, typer.Option(help='Slope length slid to the eave, e.g. "4 m".')
     ] = None,
     friction: Annotated[
-        float | None, typer.Option(help="Friction coefficient on the roof (roof-slide).")
+        float | None,
+        typer.Option(help="Friction coefficient on the roof (roof-slide; default 0.4)."),
     ] = None,
     rolling: Annotated[
         bool,
@@ -644,7 +649,9 @@ def zone(
     release_angle: Annotated[str | None, typer.Option(help="Throw angle (deg).")] = None,
     roof_pitch: Annotated[str | None, typer.Option(help="Roof pitch for roof-slide (deg).")] = None,
     roof_length: Annotated[str | None, typer.Option(help="Slope length to the eave.")] = None,
-    friction: Annotated[float | None, typer.Option(help="Roof friction (roof-slide).")] = None,
+    friction: Annotated[
+        float | None, typer.Option(help="Roof friction (roof-slide; default 0.4).")
+    ] = None,
     edge_azimuth: EdgeAzimuthOpt = 90.0,
     library: LibraryOpt = None,
     units: UnitsOpt = UnitSystem.si,

@@ -32,7 +32,10 @@ _KEYS: dict[str, set[str]] = {
     },
     "wind": {"speed", "kind", "from", "terrain", "profile", "exponent", "roughness"},
     "policy": {"confidence", "margin", "levels", "rules_file", "precision", "seed"},
-    "work_area": {"name", "release", "release_speed", "release_angle", "edge"},
+    "work_area": {
+        "name", "release", "release_speed", "release_angle", "roof_pitch", "roof_length",
+        "friction", "rolling", "edge",
+    },  # fmt: skip
     "edge": {"name", "points", "height"},
     "object": {"id", "label", "quantity", "mass", "drag_area", "contact_area"},
 }  # fmt: skip
@@ -146,7 +149,7 @@ def load_scenario(path: Path) -> Scenario:
     from dropcalc.library import load_library
     from dropcalc.physics.atmosphere import air_state
     from dropcalc.physics.gravity import gravity as local_gravity
-    from dropcalc.physics.release import Release
+    from dropcalc.physics.release import DEFAULT_ROOF_FRICTION, Release
     from dropcalc.physics.scatter import surface
     from dropcalc.physics.wind import wind_spec
     from dropcalc.plan import Site, WorkEdge
@@ -317,7 +320,28 @@ def load_scenario(path: Path) -> Scenario:
             if "release_angle" in raw
             else 0.0
         )
-        release = model(f"{key}.release", lambda m=mode, v=release_speed, t=angle: Release(m, v, t))
+        slide: dict[str, Any] = {}
+        for name, kind in (("roof_pitch", "angle"), ("roof_length", "length")):
+            if name in raw:
+                slide[name] = quantity(raw[name], kind, f"{key}.{name}")
+            elif mode == "roof-slide":
+                raise where.error(f"{key}.{name}", 'missing: release = "roof-slide" needs it')
+        if "friction" in raw:
+            slide["friction"] = number(raw["friction"], f"{key}.friction")
+        elif mode == "roof-slide":
+            slide["friction"] = DEFAULT_ROOF_FRICTION
+        if "rolling" in raw:
+            if not isinstance(raw["rolling"], bool):
+                raise where.error(
+                    f"{key}.rolling", f"expected true or false; got {raw['rolling']!r}"
+                )
+            slide["rolling"] = raw["rolling"]
+        fields = {name: f"{key}.{name}" for name in slide}
+        release = model(
+            f"{key}.release",
+            lambda m=mode, v=release_speed, t=angle, extra=slide: Release(m, v, t, **extra),
+            fields,
+        )
         raw_edges = raw.get("edge")
         if not isinstance(raw_edges, list) or not raw_edges:
             raise where.error(f"{key}.edge", "expected one or more [[work_area.edge]] tables")

@@ -169,7 +169,8 @@ def job(tmp_path_factory: pytest.TempPathFactory) -> dict[str, Any]:
     zone = json_of("zone", "--site", str(folder / "site.toml"), *ZONE_OPTIONS)
     batch = json_of(
         "batch", str(folder / "items.csv"), "--height", "12 m", "--wind", "6 m/s",
-        "--terrain", "suburban", "--elevation", "300 m",
+        "--terrain", "suburban", "--elevation", "300 m", "--release", "push",
+        "--release-speed", "1 m/s",
     )  # fmt: skip
     return {"summary": summary, "zone": zone, "batch": batch, "pdf": pdf, "folder": folder}
 
@@ -261,6 +262,73 @@ def test_summary_highest_energy_equals_batch(job: dict[str, Any]) -> None:
 def test_object_table_height_is_the_highest_edge(job: dict[str, Any]) -> None:
     whole = " ".join(page_texts(job["pdf"]))
     assert "Each item falling from 12.0 m, the highest work edge" in whole.replace("\u00a0", " ")
+
+
+#: Three work areas whose hardest strike differs: a 10 m drop, a 6 m/s push from 9 m (vacuum
+#: energy per kg g*9 + 6^2/2 = 106 J/kg beats g*10 = 98 J/kg) and a 3 m drop (never the worst).
+AREAS = """\
+[job]
+title = "Three areas"
+
+[policy]
+precision = 0.2
+levels = ["helmet-en397"]
+
+[[work_area]]
+name = "A drop"
+  [[work_area.edge]]
+  points = [[0, 0], [10, 0]]
+  height = "10 m"
+
+[[work_area]]
+name = "B push"
+release = "push"
+release_speed = "6 m/s"
+  [[work_area.edge]]
+  points = [[0, 20], [10, 20]]
+  height = "9 m"
+
+[[work_area]]
+name = "C low"
+  [[work_area.edge]]
+  points = [[0, 40], [10, 40]]
+  height = "3 m"
+
+[[object]]
+id = "brick-uk-standard"
+
+[[object]]
+id = "claw-hammer-16oz"
+"""
+
+
+def test_object_table_takes_each_item_where_it_strikes_hardest(tmp_path: Path) -> None:
+    """Each row is the batch row of the work area (its highest edge, its release) giving the
+    highest energy, named in ``work_area``; checked against `dropcalc batch` for that area and
+    against the vacuum bound E <= m (g H + v0^2 / 2) (energy conservation without drag)."""
+    from dropcalc.report.build import build_results
+    from dropcalc.scenario import load_scenario
+
+    scenario = tmp_path / "scenario.toml"
+    scenario.write_text(AREAS, encoding="utf-8")
+    results = build_results(load_scenario(scenario), tmp_path / "figures")
+    (tmp_path / "items.csv").write_text(
+        "id\nbrick-uk-standard\nclaw-hammer-16oz\n", encoding="utf-8"
+    )
+    batch = json_of(
+        "batch", str(tmp_path / "items.csv"), "--height", "9 m", "--release", "push",
+        "--release-speed", "6 m/s", "--levels", "helmet-en397",
+    )  # fmt: skip
+    by_id = {row["id"]: row for row in batch}
+    assert len(results.rows) == 2
+    for row in results.rows:
+        assert row["work_area"] == "B push", row
+        assert row["release_height_m"] == 9.0
+        expected = by_id[row["id"]]
+        for key in ("impact_energy_max_j", "impact_speed_max_m_s", "drift_max_m"):
+            assert row[key] == pytest.approx(expected[key], rel=1e-9), key
+        vacuum = row["mass_kg"] * (9.80665 * 9.0 + 6.0**2 / 2)
+        assert 0.9 * vacuum < row["impact_energy_max_j"] < vacuum
 
 
 def test_every_object_label_is_in_the_table_once(job: dict[str, Any]) -> None:

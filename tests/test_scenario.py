@@ -16,6 +16,7 @@ dropped spanner's radius is the margin alone.
 from __future__ import annotations
 
 import datetime as dt
+import math
 import re
 from pathlib import Path
 from typing import Any
@@ -24,6 +25,7 @@ import pytest
 from typer.testing import CliRunner
 
 from dropcalc.cli import app
+from dropcalc.errors import InputError
 from dropcalc.scenario import load_scenario
 
 runner = CliRunner()
@@ -325,3 +327,61 @@ def test_minimal_scenario_reports(tmp_path: Path) -> None:
     text = re.sub(r"\s+", " ", text)
     assert "Keep 2.0 m clear" in text
     assert f"Date {before}" in text or f"Date {after}" in text  # [job] date: today
+
+
+ROOF = """\
+[job]
+title = "Roof"
+
+[[work_area]]
+release = "roof-slide"
+roof_pitch = "40 deg"
+roof_length = "5 m"
+  [[work_area.edge]]
+  points = [[0, 0], [10, 0]]
+  height = "8 m"
+
+[[object]]
+id = "combination-spanner-19mm"
+"""
+
+
+def test_roof_slide_work_area_leaves_the_eave_at_the_incline_speed(tmp_path: Path) -> None:
+    """A roof-slide area: pitch and length from the file, friction defaulting to 0.4.
+    Exit speed against incline kinematics with Coulomb friction, v = sqrt(2 g L (sin θ - μ cos θ))
+    (Halliday, Resnick and Walker, Fundamentals of Physics, ch. 6, block on an incline)."""
+    from dropcalc.physics.release import initial_velocity
+
+    path = tmp_path / "scenario.toml"
+    path.write_text(ROOF, encoding="utf-8")
+    (area,) = load_scenario(path).work_areas
+    assert area.release.mode == "roof-slide"
+    assert area.release.friction == 0.4
+    theta = math.radians(40.0)
+    expected = math.sqrt(2 * 9.80665 * 5.0 * (math.sin(theta) - 0.4 * math.cos(theta)))
+    velocity = initial_velocity(area.release, 90.0, 9.80665)
+    assert math.hypot(*velocity) == pytest.approx(expected, rel=1e-12)
+
+
+@pytest.mark.parametrize(
+    ("old", "new", "key", "words"),
+    [
+        ('roof_length = "5 m"\n', "", "work_area[1].roof_length", ("missing", "roof-slide")),
+        ('roof_pitch = "40 deg"', 'roof_pitch = "40 deg"\nfriction = 0.9',
+         "work_area[1].roof_pitch", ("too shallow", "friction 0.9")),
+        ('roof_pitch = "40 deg"', 'roof_pitch = "40 deg"\nrolling = "yes"',
+         "work_area[1].rolling", ("true or false",)),
+    ],
+    ids=["length-missing", "friction-too-high", "rolling-not-bool"],
+)  # fmt: skip
+def test_roof_slide_mistakes_name_the_key(
+    old: str, new: str, key: str, words: tuple[str, ...], tmp_path: Path
+) -> None:
+    path = tmp_path / "scenario.toml"
+    path.write_text(_replace(old, new, ROOF), encoding="utf-8")
+    with pytest.raises(InputError) as error:
+        load_scenario(path)
+    message = str(error.value)
+    assert f": {key}: " in message, message
+    for word in words:
+        assert word in message, (word, message)

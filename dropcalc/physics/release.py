@@ -55,6 +55,9 @@ ROOF_PITCH_RANGE = (0.0, 80.0)
 MAXIMUM_ROOF_LENGTH = 100.0
 #: Allowed Coulomb friction coefficient between object and roof [-].
 FRICTION_RANGE = (0.0, 2.0)
+#: Friction used for ``roof-slide`` when none is given [-]: the low end of tiles, slates and
+#: tools on roof coverings (from memory, about 0.4-0.7), so that the exit speed errs high.
+DEFAULT_ROOF_FRICTION = 0.4
 #: Allowed ratio I/(m r^2) of a rolling body: 0 (all mass on the axis) to 1 (thin-walled tube).
 INERTIA_RATIO_RANGE = (0.0, 1.0)
 #: Default ratio I/(m r^2), a solid cylinder (a pipe plug, a roll of material).
@@ -624,7 +627,7 @@ def _check_roof_slide(
         raise InputError(
             f"roof_pitch {p:g} deg is too shallow for an object to slide with friction {f:g} "
             f"(needs more than {math.degrees(math.atan(f)):.1f} deg, the friction angle "
-            f"atan({f:g})); lower the friction (--friction) or choose another release mode"
+            f"atan({f:g})); lower the friction or choose another release mode"
         )
     squared = v0**2 + 2.0 * acceleration * length
     stops = squared <= 0

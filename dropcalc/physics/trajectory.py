@@ -17,6 +17,9 @@ Where the motion relative to the air is purely vertical (still air or a uniform 
 object released moving with the air) the exact closed form of
 :mod:`dropcalc.physics.closed_form` is used instead.
 
+On request (``record_path``) every accepted step is kept, and :func:`sample_path` evaluates the
+path between steps with the cubic Hermite interpolant, so a drawn path is the integrated one.
+
 References
 ----------
 Dormand, J. R. and Prince, P. J., "A family of embedded Runge-Kutta formulae", Journal of
@@ -118,6 +121,12 @@ class FallSolution:
         (carried by the wind); its other values are then where it was abandoned.
     steps : numpy.ndarray of int, shape (n,)
         Integrator steps taken (0 for the closed form).
+    paths : tuple of numpy.ndarray or None
+        Only with ``solve_falls(..., record_path=True)``, else None: one array per trajectory,
+        shape (7, m), rows time [s], x, y, z [m], vx, vy, vz [m/s], one column per accepted
+        step end in increasing time. The first column is the release (t = 0, position
+        (0, 0, release height), the initial velocity); the last is ``time``, ``position`` and
+        ``velocity`` of that trajectory. Evaluate between columns with :func:`sample_path`.
     """
 
     time: NDArray[np.float64]
@@ -125,6 +134,7 @@ class FallSolution:
     velocity: NDArray[np.float64]
     landed: NDArray[np.bool_]
     steps: NDArray[np.int64]
+    paths: tuple[NDArray[np.float64], ...] | None = None
 
 
 @dataclass(frozen=True)
@@ -219,6 +229,7 @@ def solve_falls(
     max_distance: float = 20000.0,
     closed_form: bool = True,
     drag_law: str = "quadratic",
+    record_path: bool = False,
 ) -> FallSolution:
     """Integrate many falls at once to their first ground contact.
 
@@ -247,11 +258,16 @@ def solve_falls(
         acceleration -b (v - w) with ``drag_parameter`` = b in 1/s). The linear law separates
         into independent axes with closed-form solutions, which makes it a check of the
         vector integrator; it is not meant for site objects.
+    record_path : bool
+        Keep the path of every trajectory in ``FallSolution.paths``: the state (x, y, z, vx,
+        vy, vz) at the release, at the end of every accepted step and at contact (or where the
+        trajectory was abandoned). Every trajectory is then integrated (``closed_form`` is
+        ignored), so every one has a path. Without it nothing is kept and nothing is spent.
 
     Returns
     -------
     FallSolution
-        Arrays over the n trajectories.
+        Arrays over the n trajectories (and their paths with ``record_path``).
 
     Raises
     ------
@@ -297,7 +313,7 @@ def solve_falls(
 
     wx, wy = u10 * ex, u10 * ey
     todo = np.ones(n, dtype=bool)
-    if closed_form and not linear:
+    if closed_form and not linear and not record_path:
         uniform_air = (wind.profile == "uniform") | (u10 == 0.0)
         vertical = uniform_air & (vx0 == wx) & (vy0 == wy)
         if np.any(vertical):
@@ -330,6 +346,10 @@ def solve_falls(
     state = np.zeros((6, n))
     state[2], state[3], state[4], state[5] = h0, vx0, vy0, vz0
     result = FallSolution(time, position, velocity, landed, steps)
+    # Recorded steps, one array per step and lane set: rows lane, time, then the state.
+    record: list[NDArray[np.float64]] | None = None
+    if record_path:
+        record = [np.vstack([params[_LANE], params[_T], state])]
     # Both methods advance in the same loop, so the loop runs as long as the slowest lane of
     # either, not the sum of the two. Large sets go in blocks small enough for the working
     # arrays to stay in the processor cache.
@@ -337,14 +357,96 @@ def solve_falls(
     for implicit in (False, True):
         lanes = np.flatnonzero(todo & (stiff == implicit))
         working += [
-            _start_lanes(state[:, block], params[:, block], model, tolerance, implicit)
+            _start_lanes(state[:, block], params[:, block], model, tolerance, implicit, record)
             for block in (lanes[i : i + LANE_BLOCK] for i in range(0, lanes.size, LANE_BLOCK))
         ]
     while working:
         for lane_set in working:
             _advance(lane_set, model, tolerance, max_time, max_distance, result)
         working = [lane_set for lane_set in working if lane_set.state.shape[1]]
-    return FallSolution(time, position, velocity, landed, steps)
+    paths = None if record is None else _assemble_paths(record, result)
+    return FallSolution(time, position, velocity, landed, steps, paths)
+
+
+def _assemble_paths(
+    record: list[NDArray[np.float64]], result: FallSolution
+) -> tuple[NDArray[np.float64], ...]:
+    """Sort the recorded steps into one (7, m) array per lane and end each at its result.
+
+    The steps of one lane were recorded in time order, so a stable sort by lane keeps them in
+    it. The contact's Taylor step may end a hair before the last accepted step (when that step
+    ended just below the ground), and an abandoned lane ends where its last step did: recorded
+    steps at or after the final time are dropped, so times increase strictly.
+    """
+    steps = np.hstack(record)
+    steps = steps[:, np.argsort(steps[0], kind="stable")]
+    n = result.time.size
+    bounds = np.searchsorted(steps[0], np.arange(n + 1) - 0.5)
+    paths = []
+    for lane in range(n):
+        own = steps[1:, bounds[lane] : bounds[lane + 1]]
+        end = np.concatenate(
+            [[result.time[lane]], result.position[:, lane], result.velocity[:, lane]]
+        )
+        own = own[:, own[0] < end[0]]
+        paths.append(np.hstack([own, end[:, None]]))
+    return tuple(paths)
+
+
+def sample_path(path: ArrayLike, times: ArrayLike) -> NDArray[np.float64]:
+    """Positions on a recorded path at the given times, by cubic Hermite interpolation.
+
+    On the step from t_i to t_i+1 = t_i + h, with theta = (t - t_i) / h,
+
+        r(t) = (2 theta^3 - 3 theta^2 + 1) r_i + (theta^3 - 2 theta^2 + theta) h v_i
+               + (-2 theta^3 + 3 theta^2) r_i+1 + (theta^3 - theta^2) h v_i+1,
+
+    the cubic through both end positions with both end velocities (the recorded derivative
+    of the position). It is exact for motion of degree 3 or less in time (a fall in vacuum)
+    and has a local error of order h^4 otherwise: as accurate as the drawing needs, and
+    continuous with a continuous velocity across steps.
+
+    Parameters
+    ----------
+    path : array, shape (7, m)
+        One trajectory's path from ``solve_falls(..., record_path=True).paths``: rows time
+        [s], x, y, z [m], vx, vy, vz [m/s], times increasing.
+    times : float or array, shape (p,)
+        Times at which to evaluate; clipped to the path's span [0, T]. [s]
+
+    Returns
+    -------
+    numpy.ndarray, shape (3, p)
+        Positions x, y, z at those times. [m]
+
+    Raises
+    ------
+    ValueError
+        If ``path`` does not have 7 rows and at least one column (a programming error).
+
+    References
+    ----------
+    .. [1] Hairer, E., Norsett, S. P. and Wanner, G., *Solving Ordinary Differential Equations
+       I*, 2nd ed. (1993), sec. II.6 (dense output; Hermite interpolation).
+    """
+    path = np.asarray(path, dtype=float)
+    if path.ndim != 2 or path.shape[0] != 7 or path.shape[1] < 1:
+        raise ValueError("path must have shape (7, m) with m >= 1")
+    t = path[0]
+    at = np.clip(np.atleast_1d(np.asarray(times, dtype=float)), t[0], t[-1])
+    if t.size == 1:
+        return np.repeat(path[1:4], at.size, axis=1)
+    i = np.clip(np.searchsorted(t, at, side="right") - 1, 0, t.size - 2)
+    h = t[i + 1] - t[i]
+    theta = (at - t[i]) / h
+    t2 = theta * theta
+    t3 = t2 * theta
+    return (
+        (2 * t3 - 3 * t2 + 1) * path[1:4, i]
+        + (t3 - 2 * t2 + theta) * h * path[4:7, i]
+        + (-2 * t3 + 3 * t2) * path[1:4, i + 1]
+        + (t3 - t2) * h * path[4:7, i + 1]
+    )
 
 
 def _error_ratio(
@@ -528,6 +630,8 @@ class _Lanes:
     slope: NDArray[np.float64]
     params: NDArray[np.float64]
     ground_tolerance: NDArray[np.float64]
+    #: Where accepted steps are recorded (rows lane, time, state), or None: nothing recorded.
+    record: list[NDArray[np.float64]] | None = None
 
 
 def _start_lanes(
@@ -536,6 +640,7 @@ def _start_lanes(
     model: _Model,
     tolerance: float,
     implicit: bool,
+    record: list[NDArray[np.float64]] | None = None,
 ) -> _Lanes:
     """Set the error scales, first step and kink floor of a set of lanes (copies its inputs)."""
     state = state.copy()
@@ -559,7 +664,7 @@ def _start_lanes(
     params[_FLOOR] = np.where(kinked, params[_ZMIN], 0.0)
     slope = np.empty_like(state)
     _rhs(state, params, model, slope)
-    return _Lanes(implicit, state, slope, params, 1e-3 * params[_POS_SCALE])
+    return _Lanes(implicit, state, slope, params, 1e-3 * params[_POS_SCALE], record)
 
 
 def _advance(
@@ -575,7 +680,8 @@ def _advance(
     A step that ends below the floor (the ground, or first the profile's minimum height) is
     not accepted: it is retried to the floor crossing estimated by a cubic Hermite
     interpolant. A lane within ``ground_tolerance`` of the ground is finished with a
-    second-order Taylor step to z = 0.
+    second-order Taylor step to z = 0. With ``lanes.record`` the accepted steps' ends are
+    appended to it.
     """
     state, slope, params = lanes.state, lanes.slope, lanes.params
     step = _implicit_step if lanes.implicit else _explicit_step
@@ -608,6 +714,8 @@ def _advance(
     np.copyto(slope, new_slope, where=moved)
     params[_T] += np.where(moved, h, 0.0)
     params[_STEPS] += 1.0
+    if lanes.record is not None:
+        lanes.record.append(np.vstack([params[_LANE, moved], params[_T, moved], state[:, moved]]))
     # No step may carry a lane far past the time or distance limit (long implicit steps could
     # otherwise overshoot it by kilometres): cap it at the time left and at the time to cover
     # the distance left at the current horizontal speed, with a little slack to cross it.

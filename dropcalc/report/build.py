@@ -108,7 +108,7 @@ def build_results(scenario: Scenario, figure_dir: Path, progress: Any = None) ->
     progress : callable, optional
         Progress callback passed to the Monte Carlo.
     """
-    from dropcalc.batch import BatchSettings, solve_items, sort_rows
+    from dropcalc.batch import sort_rows
     from dropcalc.physics.release import describe
     from dropcalc.plan import to_geojson
     from dropcalc.plan_plot import plot_plan
@@ -192,15 +192,7 @@ def build_results(scenario: Scenario, figure_dir: Path, progress: Any = None) ->
             geojson.append(None)
 
     top_height = max(edge.height for a in scenario.work_areas for edge in a.site.edges)
-    batch_settings = BatchSettings(
-        height=top_height,
-        wind=scenario.wind,
-        air=scenario.air,
-        gravity=scenario.gravity,
-        levels=scenario.levels,
-        rules=scenario.rules,
-    )
-    rows = sort_rows(solve_items(scenario.items, batch_settings))
+    rows = sort_rows(_object_rows(scenario))
     for row in rows:
         label = row.get("label") or row.get("name")
         row["zone_radius_m"] = max((a.object_radii.get(label, 0.0) for a in areas), default=None)
@@ -259,7 +251,6 @@ def build_results(scenario: Scenario, figure_dir: Path, progress: Any = None) ->
                 "Objects",
                 f"{len(scenario.items)} items ({sum(i.quantity for i in scenario.items)} pieces)",
             ),
-            ("Object table height", f"{top_height:g} m (the highest work edge)"),
         ],  # fmt: skip
         work_areas=areas,
         object_rows=rows,
@@ -283,6 +274,45 @@ def build_results(scenario: Scenario, figure_dir: Path, progress: Any = None) ->
         warnings=warnings,
     )
     return ScenarioResults(report, zones, rows, geojson)
+
+
+def _object_rows(scenario: Scenario) -> list[dict[str, Any]]:
+    """The object table: each item where it strikes hardest.
+
+    Every item is solved from every work area (from the area's highest edge, unless the item
+    list gives the item its own height, with the area's release, pushed or thrown along the
+    wind); the row of the area that gives the highest impact energy (smallest drag area) is
+    kept, with that area's name in ``work_area``. With one work area this is simply that area.
+    """
+    from dropcalc.batch import BatchSettings, solve_items
+
+    toward = (scenario.wind.from_direction_deg + 180.0) % 360.0
+    best: list[dict[str, Any] | None] = [None] * len(scenario.items)
+    for area in scenario.work_areas:
+        height = max(edge.height for edge in area.site.edges)
+        settings = BatchSettings(
+            height=height,
+            wind=scenario.wind,
+            air=scenario.air,
+            gravity=scenario.gravity,
+            release=area.release,
+            edge_azimuth=toward,
+            levels=scenario.levels,
+            rules=scenario.rules,
+        )
+        items = [
+            item if item.height_given else replace(item, height=height) for item in scenario.items
+        ]
+        for index, row in enumerate(solve_items(items, settings)):
+            row["work_area"] = area.name
+            if best[index] is None or _energy(row) > _energy(best[index]):
+                best[index] = row
+    return [row for row in best if row is not None]
+
+
+def _energy(row: dict[str, Any] | None) -> float:
+    value = None if row is None else row.get("impact_energy_max_j")
+    return float(value) if isinstance(value, (int, float)) and math.isfinite(value) else -math.inf
 
 
 def _wind_text(scenario: Scenario, outward: bool) -> str:

@@ -13,22 +13,11 @@ while drawing or writing leaves no partial file.
 
 How the paths are computed
 --------------------------
-The trajectory engine (:func:`dropcalc.physics.trajectory.solve_falls`) returns the state at
-ground contact only. Asking it for intermediate states would take one call per sample time (its
-``max_time`` is one number for all lanes, and a lane stopped by it ends at the end of a step,
-not at ``max_time``), so :func:`trajectory_paths` instead
-
-1. calls ``solve_falls`` once to get each fall's duration T (and whether it landed), then
-2. integrates the same equations of motion,
-
-       dr/dt = v,    dv/dt = -g e_z - k |v - w(z)| (v - w(z)),    w(z) = U_10 ratio(z) e_wind,
-
-   with the classical fixed-step fourth-order Runge-Kutta method from t = 0 to t = T, built
-   from the engine's public pieces (:func:`dropcalc.physics.wind.speed_ratio` and the
-   quadratic drag law above), and samples the states at evenly spaced times.
-
-The end point of the path therefore lands where the engine says (tests/test_figures.py checks
-it within 0.5 %); the path is for drawing only, and every number reported comes from the engine.
+:func:`trajectory_paths` asks the trajectory engine
+(:func:`dropcalc.physics.trajectory.solve_falls`) to record the path it integrates
+(``record_path=True``) and samples it with :func:`dropcalc.physics.trajectory.sample_path`
+(cubic Hermite between the engine's steps). The drawing follows the engine's own solution, and
+every path ends at the engine's contact point; every number reported comes from the engine.
 """
 
 from __future__ import annotations
@@ -45,8 +34,7 @@ from numpy.typing import ArrayLike, NDArray
 from dropcalc.errors import InputError, require_suffix
 from dropcalc.output import write_atomic
 from dropcalc.physics.constants import STANDARD_GRAVITY
-from dropcalc.physics.trajectory import WindField, solve_falls
-from dropcalc.physics.wind import speed_ratio
+from dropcalc.physics.trajectory import WindField, sample_path, solve_falls
 
 if TYPE_CHECKING:
     from dropcalc.fall import FallResult
@@ -54,14 +42,6 @@ if TYPE_CHECKING:
 FIGURE_FORMATS = (".png", ".svg")
 #: Resolution of PNG files [dots per inch].
 PNG_DPI = 200
-
-#: Steps of the path integrator: at least this many over a fall, at most the second number.
-PATH_STEPS = (800, 6000)
-#: Largest step of the path integrator as a fraction of the fastest drag relaxation time
-#: 1 / (2 k |v - w|); 0.5 keeps RK4 accurate (its stability limit is 2.78).
-PATH_STEP_FRACTION = 0.5
-#: Lanes that would need a longer step than this (in the same units) get the quasi-steady path.
-QUASI_STEADY_STEP_FRACTION = 2.0
 
 #: Number of release heights of an energy curve.
 ENERGY_CURVE_POINTS = 60
@@ -86,91 +66,6 @@ LARGEST_DRAG_DASHES = (0, (5.0, 2.4))
 # --------------------------------------------------------------------------------------------
 
 
-def _lanes(*values: ArrayLike) -> tuple[NDArray[np.float64], ...]:
-    arrays = [np.asarray(v, dtype=float) for v in values]
-    shape = np.broadcast_shapes(*(a.shape for a in arrays))
-    if len(shape) > 1:
-        raise ValueError("path parameters must be scalars or 1-D arrays")
-    return tuple(np.broadcast_to(a, shape).reshape(-1).astype(float) for a in arrays)
-
-
-@dataclass(frozen=True)
-class _Air:
-    """Wind and drag of every lane, flattened to arrays of one length."""
-
-    k: NDArray[np.float64]
-    g: NDArray[np.float64]
-    wind_east: NDArray[np.float64]
-    wind_north: NDArray[np.float64]
-    profile: str
-    exponent: NDArray[np.float64]
-    roughness_length: NDArray[np.float64]
-    minimum_height: NDArray[np.float64]
-
-    def ratio(self, height: NDArray[np.float64]) -> NDArray[np.float64]:
-        """Ratio [-] of the wind speed at ``height`` to the speed at 10 m."""
-        return speed_ratio(
-            height, self.profile, self.exponent, self.roughness_length, self.minimum_height
-        )
-
-    def derivative(self, state: NDArray[np.float64]) -> NDArray[np.float64]:
-        """d(state)/dt for state rows x, y, z, vx, vy, vz: dv/dt = -g e_z - k |v - w| (v - w)."""
-        ratio = self.ratio(state[2])
-        rx = state[3] - self.wind_east * ratio
-        ry = state[4] - self.wind_north * ratio
-        rz = state[5]
-        drag = self.k * np.sqrt(rx * rx + ry * ry + rz * rz)
-        return np.stack([state[3], state[4], state[5], -drag * rx, -drag * ry, -self.g - drag * rz])
-
-
-def _rk4(
-    air: _Air, start: NDArray[np.float64], duration: NDArray[np.float64], samples: int, steps: int
-) -> NDArray[np.float64]:
-    """States at ``samples`` even times from 0 to ``duration``; shape (samples, 6, n)."""
-    per_sample = max(1, math.ceil(steps / (samples - 1)))
-    h = duration / ((samples - 1) * per_sample)
-    state = start.copy()
-    out = np.empty((samples, *start.shape))
-    out[0] = state
-    for i in range(1, samples):
-        for _ in range(per_sample):
-            k1 = air.derivative(state)
-            k2 = air.derivative(state + 0.5 * h * k1)
-            k3 = air.derivative(state + 0.5 * h * k2)
-            k4 = air.derivative(state + h * k3)
-            state = state + h / 6.0 * (k1 + 2.0 * k2 + 2.0 * k3 + k4)
-        out[i] = state
-    return out
-
-
-def _quasi_steady(
-    air: _Air,
-    start: NDArray[np.float64],
-    end_height: NDArray[np.float64],
-    samples: int,
-) -> NDArray[np.float64]:
-    """Positions [m] of lanes that relax to terminal motion at once; shape (samples, 3, n).
-
-    When the drag relaxation time 1 / (2 k |v - w|) is tiny beside the fall time, the object
-    moves with the wind and sinks at its terminal speed v_t = sqrt(g / k) after a negligible
-    transient, so dx/dz = -w_x(z) / v_t (and likewise y). Integrated over z by the trapezoidal
-    rule on a grid 20 times finer than the samples.
-    """
-    fine = 20 * (samples - 1) + 1
-    fraction = np.linspace(0.0, 1.0, fine)[:, None]
-    z = start[2] + (end_height - start[2]) * fraction
-    terminal = np.sqrt(air.g / air.k)
-    ratio = air.ratio(z)
-    dz = np.diff(z, axis=0)
-    mean_ratio = 0.5 * (ratio[1:] + ratio[:-1])
-    carried = np.concatenate([np.zeros((1, z.shape[1])), np.cumsum(-mean_ratio * dz, axis=0)])
-    carried /= terminal
-    positions = np.stack(
-        [start[0] + air.wind_east * carried, start[1] + air.wind_north * carried, z], axis=1
-    )
-    return positions[::20]
-
-
 def trajectory_paths(
     release_height: ArrayLike,
     initial_velocity: ArrayLike,
@@ -183,17 +78,13 @@ def trajectory_paths(
 ) -> list[NDArray[np.float64]]:
     """Paths of falls from release to ground contact, for drawing.
 
-    Each fall's duration T comes from one :func:`~dropcalc.physics.trajectory.solve_falls`
-    call; the path is then integrated with fixed-step classical Runge-Kutta (order 4) over
-    [0, T] with the same equations of motion,
-
-        dr/dt = v,    dv/dt = -g e_z - k |v - w(z)| (v - w(z)),
-
-    and sampled at ``samples`` even times. The step is at most half the shortest drag
-    relaxation time 1 / (2 k |v - w|) and at most T / 800. Lanes so stiff that this would need
-    more than 6000 steps (very light objects falling far) are drawn on their quasi-steady path
-    instead: moving with the wind, sinking at terminal speed (exact in the limit of a
-    relaxation time small beside T; their sample times are spread evenly over T).
+    One :func:`~dropcalc.physics.trajectory.solve_falls` call with ``record_path=True``
+    integrates every fall (the closed form is not used, so every fall has a path) and keeps
+    the state at each of its accepted steps; each path is then sampled at ``samples`` even
+    times from 0 to the fall's end time T by the cubic Hermite interpolant of the positions
+    and velocities at the ends of the step holding each time
+    (:func:`~dropcalc.physics.trajectory.sample_path`). The first sample is the release, the
+    last the engine's contact point.
 
     Parameters
     ----------
@@ -228,82 +119,24 @@ def trajectory_paths(
     References
     ----------
     .. [1] Hairer, E., Norsett, S. P. and Wanner, G., *Solving Ordinary Differential Equations
-       I*, 2nd ed. (1993), sec. II.1, Table 1.2 (the classical Runge-Kutta method).
+       I*, 2nd ed. (1993), sec. II.6 (dense output; Hermite interpolation).
     """
     if samples < 2:
         raise ValueError("samples must be at least 2")
-    wind = wind or WindField()
-    v0 = np.asarray(initial_velocity, dtype=float)
-    if v0.ndim == 1:
-        v0 = v0[:, None]
-    if v0.shape[0] != 3:
-        raise ValueError("initial_velocity must have shape (3,) or (3, n)")
     solution = solve_falls(
         release_height,
-        v0,
+        initial_velocity,
         drag_parameter,
         gravity=gravity,
         wind=wind,
         max_distance=max_distance,
+        record_path=True,
     )
-    (h0, k, g, u10, ex, ey, alpha, z0, zmin, vx0, vy0, vz0) = _lanes(
-        release_height,
-        drag_parameter,
-        gravity,
-        wind.speed_10m,
-        wind.toward_east,
-        wind.toward_north,
-        wind.exponent,
-        wind.roughness_length,
-        wind.minimum_height,
-        v0[0],
-        v0[1],
-        v0[2],
-    )
-    air = _Air(k, g, u10 * ex, u10 * ey, wind.profile, alpha, z0, zmin)
-    start = np.stack([np.zeros_like(h0), np.zeros_like(h0), h0, vx0, vy0, vz0])
-    duration = solution.time
-
-    # Fastest relaxation rate 2 k |v - w| along the fall: the relative speed stays below the
-    # larger of the terminal and the initial relative speed plus the largest wind on the way.
-    apex = h0 + np.maximum(vz0, 0.0) ** 2 / (2.0 * g)
-    wind_top = np.abs(u10) * air.ratio(apex)
-    with np.errstate(divide="ignore"):
-        terminal = np.where(k > 0, np.sqrt(g / np.where(k > 0, k, 1.0)), 0.0)
-    initial_relative = np.sqrt(vx0**2 + vy0**2 + vz0**2) + wind_top
-    rate = 2.0 * k * (np.maximum(terminal, initial_relative) + wind_top)
-    stiffness = rate * duration
-    low, high = PATH_STEPS
-    stiff = stiffness > QUASI_STEADY_STEP_FRACTION * high
-    needed = stiffness[~stiff].max(initial=0.0) / PATH_STEP_FRACTION
-    steps = int(min(max(low, math.ceil(needed)), high))
-
-    positions = np.empty((samples, 3, h0.size))
-    regular = ~stiff
-    if np.any(regular):
-        lane_air = _select(air, regular)
-        states = _rk4(lane_air, start[:, regular], duration[regular], samples, steps)
-        positions[:, :, regular] = states[:, 0:3]
-    if np.any(stiff):
-        lane_air = _select(air, stiff)
-        positions[:, :, stiff] = _quasi_steady(
-            lane_air, start[:, stiff], solution.position[2, stiff], samples
-        )
-    times = np.linspace(0.0, 1.0, samples)[:, None] * duration
-    return [np.vstack([times[:, i], positions[:, :, i].T]) for i in range(h0.size)]
-
-
-def _select(air: _Air, lanes: NDArray[np.bool_]) -> _Air:
-    return _Air(
-        air.k[lanes],
-        air.g[lanes],
-        air.wind_east[lanes],
-        air.wind_north[lanes],
-        air.profile,
-        air.exponent[lanes],
-        air.roughness_length[lanes],
-        air.minimum_height[lanes],
-    )
+    tracks = []
+    for path in solution.paths or ():  # record_path=True: one path per fall
+        times = np.linspace(0.0, path[0, -1], samples)
+        tracks.append(np.vstack([times, sample_path(path, times)]))
+    return tracks
 
 
 # --------------------------------------------------------------------------------------------

@@ -350,6 +350,31 @@ def _heading(text: str, styles: dict[str, ParagraphStyle]) -> Paragraph:
     return Paragraph(_text(text), styles["h2"])
 
 
+def _where(row: dict[str, Any], data: ReportData) -> str:
+    """Where an object-table row falls from: "12 m (East scaffold, pushed off ...)"."""
+    height = f"{sig(row.get('release_height_m', data.object_table_height_m))}\u00a0m"
+    area = row.get("work_area")
+    if not area:
+        return height
+    releases = {a.name: a.release for a in data.work_areas}
+    release = releases.get(str(area))
+    return f"{height} ({area}, {release})" if release else f"{height} ({area})"
+
+
+def _table_basis(data: ReportData) -> str:
+    """How the object table's rows were computed, in one sentence."""
+    if len(data.work_areas) <= 1:
+        release = data.work_areas[0].release if data.work_areas else "dropped from rest"
+        return (
+            f"Each item falling from {sig(data.object_table_height_m)}\u00a0m, the highest work "
+            f"edge, {release}"
+        )
+    return (
+        "Each item from the work area where it strikes hardest (named under the item: that "
+        "area's highest edge and release)"
+    )
+
+
 def _item_label(row: dict[str, Any]) -> str:
     return str(row.get("label") or row.get("name") or row.get("id") or f"row {row.get('row', '?')}")
 
@@ -494,11 +519,10 @@ def _highest_energy(data: ReportData, styles: dict[str, ParagraphStyle]) -> list
         else "Below every reference level listed in this report."
     )
     energy = sig(top.get("impact_energy_max_j"))
-    height = sig(top.get("release_height_m", data.object_table_height_m))
     text = (
         f"<b>{_text(_item_label(top))}</b> ({sig(top.get('mass_kg'))}\u00a0kg) strikes with "
         f"<b>{energy}\u00a0J</b> at {sig(top.get('impact_speed_max_m_s'))}\u00a0m/s when it "
-        f"falls from {height}\u00a0m at its smallest drag area. {levels_text}"
+        f"falls from {_text(_where(top, data))} at its smallest drag area. {levels_text}"
     )
     return [
         Paragraph("Highest impact energy on the object list", styles["h3"]),
@@ -572,7 +596,7 @@ def _inputs(data: ReportData, styles: dict[str, ParagraphStyle]) -> list[Flowabl
         ("Air", data.air_text),
         ("Ground", data.ground_text),
         ("Share of simulated drops inside the distance", _percent(data.confidence)),
-        ("Release height of the object table", f"{sig(data.object_table_height_m)}\u00a0m"),
+        ("Object table", _table_basis(data)),
     ]
     out: list[Flowable] = [_heading("Inputs and assumptions", styles)]
     if data.inputs:
@@ -615,8 +639,8 @@ def _objects(data: ReportData, styles: dict[str, ParagraphStyle]) -> list[Flowab
         CondPageBreak(60 * mm),
         _heading("Objects", styles),
         Paragraph(
-            f"Each item falling from {sig(data.object_table_height_m)}\u00a0m, the highest work "
-            "edge, highest impact energy first. Speeds and energy at the smallest drag area (the "
+            f"{_text(_table_basis(data))}; highest impact energy first. Speeds and energy at "
+            "the smallest drag area (the "
             "hardest hit); drift at the largest (the furthest carry); zone radius is the item's "
             "own distance in the widest work area. Levels reached are numbered as in the "
             "legend below the table.",
@@ -634,7 +658,10 @@ def _objects(data: ReportData, styles: dict[str, ParagraphStyle]) -> list[Flowab
     cells: list[list[Any]] = [header]
     spans: list[tuple[Any, ...]] = []
     for index, row in enumerate(data.object_rows, start=1):
-        item = Paragraph(_text(_item_label(row)), styles["cell"])
+        label = _text(_item_label(row))
+        if len(data.work_areas) > 1 and row.get("work_area"):
+            label += f"<br/><i>{_text(row['work_area'])}, {sig(row.get('release_height_m'))} m</i>"
+        item = Paragraph(label, styles["cell"])
         if row.get("error"):
             reason = Paragraph("not computed: " + _text(row["error"]), styles["cell"])
             cells.append([item, reason] + [""] * (len(_OBJECT_COLUMNS) - 2))
