@@ -970,7 +970,12 @@ def objects(
     ] = None,
     library: LibraryOpt = None,
     csv: Annotated[
-        Path | None, typer.Option("--csv", help="Write the listed objects to a CSV file.")
+        Path | None,
+        typer.Option(
+            "--csv",
+            help="Write the listed objects to a CSV file in the --library format (edit, then "
+            "load it back with --library).",
+        ),
     ] = None,
     units: UnitsOpt = UnitSystem.si,
     as_json: JsonOpt = False,
@@ -992,15 +997,11 @@ def objects(
             chosen = [o for o in chosen if o.category == category]
         records = [o.to_json() for o in chosen]
         if csv is not None:
+            from dropcalc.library import csv_rows
             from dropcalc.output import write_rows
 
             require_suffix(csv, (".csv",), "--csv")
-            flat = [
-                {**{k: r[k] for k in _OBJECT_COLUMNS if k != "hazards"},
-                 "hazards": "; ".join(r["hazards"])}
-                for r in records
-            ]  # fmt: skip
-            write_rows(csv, flat)
+            write_rows(csv, csv_rows(chosen))
     except DropcalcError as exc:
         _fail(str(exc))
         return

@@ -23,7 +23,7 @@ import functools
 import math
 import re
 import tomllib
-from collections.abc import Callable, Iterator, Mapping
+from collections.abc import Callable, Iterable, Iterator, Mapping
 from dataclasses import dataclass, field
 from pathlib import Path
 from types import MappingProxyType
@@ -102,9 +102,22 @@ CSV_COLUMNS: tuple[str, ...] = (
     "thickness_m",
     "contact_area_m2",
     "drag_area_m2",
+    "drag_area_min_m2",
+    "drag_area_max_m2",
     "hazards",
+    "fragile",
     "notes",
     "source",
+)
+#: Columns whose name starts with this hold what dropcalc computed (``objects --csv``); they are
+#: shown for reading and ignored when the file is read back.
+COMPUTED_PREFIX = "computed_"
+#: Computed columns written by :func:`csv_rows` after the :data:`CSV_COLUMNS`.
+COMPUTED_COLUMNS = (
+    "computed_drag_area_min_m2",
+    "computed_drag_area_typical_m2",
+    "computed_drag_area_max_m2",
+    "computed_glides",
 )
 _CSV_REQUIRED = ("id", "name", "category", "mass_kg", "shape")
 _DIMENSION_NAMES = (
@@ -573,7 +586,7 @@ def _read_csv(path: Path) -> list[DropObject]:
         raise InputError(f"{path.name}: the file is empty; row 1 must name the columns")
     header = [name.strip() for name in rows[0]]
     for name in header:
-        if name not in CSV_COLUMNS:
+        if name not in CSV_COLUMNS and not name.startswith(COMPUTED_PREFIX):
             raise InputError(
                 f'{path.name}: row 1: unknown column "{name}"; {_suggest(name, list(CSV_COLUMNS))} '
                 f"(allowed columns: {', '.join(CSV_COLUMNS)})"
@@ -613,9 +626,19 @@ def _record_from_cells(cells: dict[str, str], prefix: str) -> dict[str, Any]:
     record: dict[str, Any] = {
         key: cells[key] for key in ("id", "name", "category", "mass_kg", "shape") if key in cells
     }
-    for key in ("contact_area_m2", "drag_area_m2", "notes", "source"):
+    for key in ("contact_area_m2", "drag_area_m2", "drag_area_min_m2", "drag_area_max_m2"):
         if cells.get(key):
             record[key] = cells[key]
+    for key in ("notes", "source"):
+        if cells.get(key):
+            record[key] = cells[key]
+    if cells.get("fragile"):
+        word = cells["fragile"].lower()
+        if word not in ("true", "false", "yes", "no"):
+            raise InputError(
+                f'{prefix}fragile must be true, false, yes or no; got "{cells["fragile"]}"'
+            )
+        record["fragile"] = word in ("true", "yes")
     if cells.get("hazards"):
         record["hazards"] = [word.strip() for word in cells["hazards"].split(";") if word.strip()]
     shape_text = cells.get("shape", "")
@@ -640,6 +663,50 @@ def _record_from_cells(cells: dict[str, str], prefix: str) -> dict[str, Any]:
             dimensions[name] = cell
     record["dimensions_m"] = dimensions
     return record
+
+
+def csv_rows(objects: Iterable[DropObject]) -> list[dict[str, Any]]:
+    """Objects as rows of the user CSV format, so that a file written from them reads back.
+
+    The :data:`CSV_COLUMNS` hold what defines each object (sizes in metres, mass in kg, a drag
+    area only where one was stated rather than computed from the shape); the
+    :data:`COMPUTED_COLUMNS` after them show the drag areas dropcalc worked out and are ignored
+    on reading, so editing a size changes the drag areas and editing a computed cell does not.
+    """
+
+    def blank(value: float | None) -> float | str:
+        return "" if value is None else value
+
+    rows = []
+    for item in objects:
+        row: dict[str, Any] = dict.fromkeys(CSV_COLUMNS, "")
+        row.update(
+            id=item.id,
+            name=item.name,
+            category=item.category,
+            mass_kg=item.mass,
+            shape=item.shape,
+            contact_area_m2=item.contact_area if item.contact_area is not None else "",
+            drag_area_m2=item.drag_area_given if item.drag_area_given is not None else "",
+            drag_area_min_m2=item.drag_area_min_given
+            if item.drag_area_min_given is not None
+            else "",
+            drag_area_max_m2=item.drag_area_max_given
+            if item.drag_area_max_given is not None
+            else "",
+            hazards="; ".join(item.hazards),
+            fragile="true" if item.fragile else "false",
+            notes=item.notes,
+            source=item.source,
+        )
+        for name, value in item.dimensions.items():
+            row[f"{name}_m"] = value
+        row["computed_drag_area_min_m2"] = item.drag_area_min
+        row["computed_drag_area_typical_m2"] = item.drag_area_typical
+        row["computed_drag_area_max_m2"] = item.drag_area_max
+        row["computed_glides"] = "true" if item.glides else "false"
+        rows.append(row)
+    return rows
 
 
 # --- One object ----------------------------------------------------------------------------------

@@ -142,10 +142,49 @@ def test_objects_csv_reads_back(tmp_path):
     expected = run_json("objects", "--category", "hand-tools")
     assert [r["id"] for r in records] == [e["id"] for e in expected]
     for record, want in zip(records, expected, strict=True):
-        for field in ("mass_kg", "drag_area_min_m2", "drag_area_max_m2"):
-            assert float(record[field]) == pytest.approx(want[field], rel=1e-12), field
+        assert float(record["mass_kg"]) == pytest.approx(want["mass_kg"], rel=1e-12)
+        for field in ("drag_area_min_m2", "drag_area_max_m2"):
+            shown = float(record[f"computed_{field}"])
+            assert shown == pytest.approx(want[field], rel=1e-12), field
         assert record["name"] == want["name"]
         assert record["source"] == want["source"]
+
+
+def test_the_whole_library_written_as_csv_loads_back_unchanged(tmp_path):
+    """`objects --csv` writes the --library format: read back, every object has the same
+    mass, shape, sizes, drag areas, contact area, hazards and fragility."""
+    path = tmp_path / "library.csv"
+    assert invoke("objects", "--csv", str(path)).exit_code == 0
+    again = load_library(path)
+    assert len(again.overridden) == len(load_library())  # every id came back
+    for original in load_library():
+        copy = again.get(original.id)
+        for field in ("name", "category", "shape", "hazards", "fragile", "glides", "notes"):
+            assert getattr(copy, field) == getattr(original, field), (original.id, field)
+        for field in ("mass", "drag_area_min", "drag_area_typical", "drag_area_max"):
+            want = getattr(original, field)
+            assert getattr(copy, field) == pytest.approx(want, rel=1e-12), (original.id, field)
+        assert dict(copy.dimensions) == pytest.approx(dict(original.dimensions), rel=1e-12)
+        assert (copy.contact_area is None) == (original.contact_area is None)
+
+
+def test_editing_a_size_in_the_exported_csv_changes_the_drag_but_a_computed_cell_does_not(
+    tmp_path,
+):
+    path = tmp_path / "spanner.csv"
+    assert invoke("objects", "--search", "combination spanner", "--csv", str(path)).exit_code == 0
+    with path.open(encoding="utf-8", newline="") as handle:
+        (row,) = list(csv.DictReader(handle))
+    original = load_library().get("combination-spanner-19mm")
+    row["computed_drag_area_min_m2"] = "99"  # ignored on reading
+    row["length_m"] = str(2 * float(row["length_m"]))
+    with path.open("w", encoding="utf-8", newline="") as handle:
+        writer = csv.DictWriter(handle, fieldnames=list(row))
+        writer.writeheader()
+        writer.writerow(row)
+    edited = load_library(path).get("combination-spanner-19mm")
+    assert edited.drag_area_max > 1.5 * original.drag_area_max  # longer side, larger area
+    assert edited.drag_area_min < 1.0
 
 
 def test_objects_csv_into_a_missing_folder_exits_2(tmp_path):

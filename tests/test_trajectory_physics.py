@@ -18,7 +18,7 @@ from fluids.drag import v_terminal
 
 from dropcalc.physics.closed_form import vertical_fall
 from dropcalc.physics.drag import drag_area, drag_parameter, terminal_speed
-from dropcalc.physics.trajectory import WindField, solve_falls
+from dropcalc.physics.trajectory import STIFF_FALL_HEIGHT, WindField, sample_path, solve_falls
 
 G = 9.80665  # standard gravity [m/s^2], 3rd CGPM (1901); REFERENCES.md header
 
@@ -356,3 +356,195 @@ def test_mixed_drag_parameters_each_match_their_closed_form() -> None:
     time, speed = vertical_fall(h, 0.0, ks, G)
     np.testing.assert_allclose(solution.time, time, rtol=1e-6)
     np.testing.assert_allclose(-solution.velocity[2], speed, rtol=1e-6)
+
+
+# ============================================================================================
+# Recorded paths: solve_falls(..., record_path=True) and sample_path
+# ============================================================================================
+# Oracles: Galileo's vacuum fall (x = v0 t, z = H - g t^2 / 2), the vertical fall with
+# quadratic drag of Timmerman, P. and van der Weele, J. P., "On the rise and fall of a ball
+# with linear or quadratic drag", Am. J. Phys. 67 (1999) 538-546 (eq. 8), written out here,
+# and scipy.integrate.solve_ivp with method "DOP853" at rtol 1e-10 on the equations of motion
+# written out here. The paths are sampled with the cubic Hermite interpolant (Hairer, Norsett
+# and Wanner, *Solving Ordinary Differential Equations I*, 2nd ed. 1993, sec. II.6).
+
+# A power-law wind, V(z) = V10 (z / 10 m)^alpha (REFERENCES.md §4), held at its value at
+# z_min below z_min (EN 1991-1-4:2005, eq. 4.4).
+PATH_WIND_SPEED = 12.0  # [m/s]
+PATH_WIND_EAST, PATH_WIND_NORTH = 0.6, 0.8  # [-]
+PATH_WIND_EXPONENT = 0.22  # [-]
+PATH_WIND_MINIMUM_HEIGHT = 2.0  # [m]
+PATH_WIND = WindField(
+    speed_10m=PATH_WIND_SPEED,
+    toward_east=PATH_WIND_EAST,
+    toward_north=PATH_WIND_NORTH,
+    profile="power",
+    exponent=PATH_WIND_EXPONENT,
+    minimum_height=PATH_WIND_MINIMUM_HEIGHT,
+)
+
+# (release height [m], initial velocity [m/s], k [1/m]): a pushed tool (explicit method), a
+# throw upwards, and a light object, k = 2 /m from 100 m: g H / v_t^2 = 200 > 20, which the
+# engine hands to its implicit (stiff) method.
+PATH_LANES = [
+    (60.0, (1.5, 0.0, 0.0), 0.02),
+    (30.0, (0.0, 0.0, 3.0), 0.3),
+    (100.0, (0.0, 0.0, 0.0), 2.0),
+]
+
+
+def _path_lane_arrays() -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    heights = np.array([lane[0] for lane in PATH_LANES])
+    velocities = np.array([lane[1] for lane in PATH_LANES]).T
+    ks = np.array([lane[2] for lane in PATH_LANES])
+    return heights, velocities, ks
+
+
+def test_without_record_path_there_are_no_paths_and_the_numbers_do_not_change() -> None:
+    # Mixed lanes in one call: in still air (wind 0 at that lane) and released at rest or
+    # straight up the engine takes the closed form; in the wind it integrates, with both
+    # methods (k = 2 /m from 100 m is stiff). With record_path every lane is integrated.
+    heights = np.array([30.0, 100.0, 10.0, 60.0, 20.0, 100.0])
+    ks = np.array([0.01, 2.0, 0.05, 0.02, 0.3, 2.0])
+    velocities = np.array(
+        [[0.0, 0.0, 0.0, 0.0, 1.5, 0.0], [0.0] * 6, [0.0, 0.0, 5.0, 0.0, 0.0, 0.0]]
+    )
+    speeds = np.array([0.0, 0.0, 0.0, 8.0, 8.0, 8.0])
+    wind = WindField(speed_10m=speeds, profile="power", exponent=0.2, minimum_height=2.0)
+    plain = solve_falls(heights, velocities, ks, wind=wind)
+    recorded = solve_falls(heights, velocities, ks, wind=wind, record_path=True)
+    assert plain.paths is None
+    assert recorded.paths is not None
+    assert len(recorded.paths) == heights.size
+    closed = plain.steps == 0
+    assert list(closed) == [True, True, True, False, False, False]
+    assert np.all(recorded.steps > 0)
+    assert plain.landed.all()
+    assert recorded.landed.all()
+    # Integrated lanes: recording changes nothing (same arithmetic; 1e-12 allows rounding).
+    # Closed-form lanes: the integrator against the exact solution, the engine's accuracy
+    # (fall time 2.8e-7, impact speed 1.4e-6 relative over 20,000 cases against DOP853,
+    # tests/test_trajectory_accuracy.py), hence 1e-6.
+    for lanes, rel in ((~closed, 1e-12), (closed, 1e-6)):
+        np.testing.assert_allclose(recorded.time[lanes], plain.time[lanes], rtol=rel, atol=0)
+        for name in ("position", "velocity"):
+            got, want = getattr(recorded, name)[:, lanes], getattr(plain, name)[:, lanes]
+            scale = np.max(np.abs(want), axis=0)
+            assert np.all(np.abs(got - want) <= rel * scale), name
+
+
+def test_recorded_vacuum_path_is_galileo_at_any_time() -> None:
+    # k = 0, pushed sideways: x = u t, y = v t, z = H - g t^2 / 2 (Galileo). The motion is a
+    # polynomial of degree 2, which the integrator's steps and the cubic Hermite interpolant
+    # both reproduce exactly: only rounding is left (1e-9 m).
+    h, u, v = 12.0, 1.5, -0.7
+    solution = solve_falls(h, [u, v, 0.0], 0.0, gravity=G, record_path=True)
+    assert solution.paths is not None
+    (path,) = solution.paths
+    fall_time = math.sqrt(2.0 * h / G)
+    assert path[0, -1] == pytest.approx(fall_time, rel=1e-9)
+    times = np.random.default_rng(11).uniform(0.0, path[0, -1], 40)
+    positions = sample_path(path, times)
+    assert positions.shape == (3, 40)
+    np.testing.assert_allclose(positions[0], u * times, rtol=0, atol=1e-9)
+    np.testing.assert_allclose(positions[1], v * times, rtol=0, atol=1e-9)
+    np.testing.assert_allclose(positions[2], h - 0.5 * G * times**2, rtol=0, atol=1e-9)
+    # Times outside [0, T] are clipped to the release and the contact.
+    outside = sample_path(path, [-1.0, path[0, -1] + 5.0])
+    assert list(outside[:, 0]) == [0.0, 0.0, h]
+    assert list(outside[:, 1]) == list(path[1:4, -1])
+
+
+@pytest.mark.parametrize(
+    ("release_height", "k"),
+    [
+        (40.0, 0.01),  # g H / v_t^2 = 0.4: few, long explicit steps (the worst case seen)
+        (25.0, 0.3),  # 7.5: explicit
+        (100.0, 2.0),  # 200: implicit (stiff) method
+    ],
+)
+def test_recorded_still_air_path_follows_timmerman_van_der_weele(
+    release_height: float, k: float
+) -> None:
+    # Distance fallen from rest d(t) = (v_t^2 / g) ln cosh(g t / v_t), v_t = sqrt(g / k)
+    # (Timmerman & van der Weele 1999, eq. 8), at 50 times. The cubic Hermite interpolant has
+    # a local error of order h^4 on the engine's steps: observed at most 2e-6 H (first case,
+    # 13 points over the fall), so 1e-5 H.
+    v_t = math.sqrt(G / k)
+    solution = solve_falls(release_height, [0.0, 0.0, 0.0], k, gravity=G, record_path=True)
+    assert solution.paths is not None
+    (path,) = solution.paths
+    times = np.linspace(0.0, path[0, -1], 50)
+    positions = sample_path(path, times)
+    fallen = v_t**2 / G * np.log(np.cosh(G * times / v_t))
+    np.testing.assert_allclose(
+        positions[2], release_height - fallen, rtol=0, atol=1e-5 * release_height
+    )
+    assert np.all(positions[0:2] == 0.0)  # nothing pushes it sideways in still air
+
+
+def _power_wind_rhs(_: float, y: np.ndarray, k: float) -> np.ndarray:
+    """dr/dt = v, dv/dt = -g e_z - k |v - w(z)| (v - w(z)) in PATH_WIND, written out here."""
+    ratio = (max(y[2], PATH_WIND_MINIMUM_HEIGHT) / 10.0) ** PATH_WIND_EXPONENT
+    relative = y[3:6] - PATH_WIND_SPEED * ratio * np.array([PATH_WIND_EAST, PATH_WIND_NORTH, 0.0])
+    drag = k * math.sqrt(float(relative @ relative))
+    return np.concatenate([y[3:6], -drag * relative - np.array([0.0, 0.0, G])])
+
+
+def test_recorded_windy_paths_follow_dop853() -> None:
+    # Sheared power-law wind, both integrator methods, against scipy's DOP853 at rtol 1e-10
+    # (its dense output) at 50 times: within 1e-4 H (brief; observed at most 1e-6 H).
+    from scipy.integrate import solve_ivp
+
+    heights, velocities, ks = _path_lane_arrays()
+    solution = solve_falls(heights, velocities, ks, gravity=G, wind=PATH_WIND, record_path=True)
+    assert solution.paths is not None
+    for i, path in enumerate(solution.paths):
+        start = np.concatenate([[0.0, 0.0, heights[i]], velocities[:, i]])
+        reference = solve_ivp(
+            _power_wind_rhs,
+            (0.0, path[0, -1]),
+            start,
+            method="DOP853",
+            rtol=1e-10,
+            atol=1e-12 * heights[i],
+            dense_output=True,
+            args=(ks[i],),
+        )
+        assert reference.success
+        times = np.linspace(0.0, path[0, -1], 50)
+        np.testing.assert_allclose(
+            sample_path(path, times), reference.sol(times)[0:3], rtol=0, atol=1e-4 * heights[i]
+        )
+
+
+def test_recorded_paths_run_from_the_release_to_the_engines_result() -> None:
+    # Each path starts at (0, 0, H) with the release velocity, ends at exactly the time,
+    # position and velocity the engine reports, and its times increase strictly; lanes of
+    # both methods (the last is stiff: g H / v_t^2 = 9.81 * 100 / 4.9 = 200).
+    heights, velocities, ks = _path_lane_arrays()
+    assert ks[-1] * heights[-1] > STIFF_FALL_HEIGHT  # g H / v_t^2 = g H / (g / k) = k H
+    solution = solve_falls(heights, velocities, ks, gravity=G, wind=PATH_WIND, record_path=True)
+    assert solution.paths is not None
+    assert solution.landed.all()
+    for i, path in enumerate(solution.paths):
+        assert path.shape[0] == 7
+        assert path.shape[1] >= 3
+        assert list(path[:, 0]) == [0.0, 0.0, 0.0, heights[i], *velocities[:, i]]
+        end = [solution.time[i], *solution.position[:, i], *solution.velocity[:, i]]
+        assert list(path[:, -1]) == end
+        assert path[3, -1] == 0.0
+        assert np.all(np.diff(path[0]) > 0.0)
+
+
+def test_recorded_path_of_an_abandoned_fall_ends_where_it_was_abandoned() -> None:
+    # Still-air fall of 100 m takes 5.3 s (closed form); max_time 1 s abandons it in the air:
+    # the path ends there, at the engine's time and height, with times increasing.
+    solution = solve_falls(100.0, [0.0, 0.0, 0.0], 0.01, max_time=1.0, record_path=True)
+    assert not solution.landed[0]
+    assert solution.paths is not None
+    (path,) = solution.paths
+    assert path[0, -1] == solution.time[0]
+    assert path[3, -1] == solution.position[2, 0]
+    assert path[3, -1] > 0.0
+    assert np.all(np.diff(path[0]) > 0.0)
