@@ -33,7 +33,7 @@ from collections.abc import Callable
 from dataclasses import dataclass
 from typing import TYPE_CHECKING, Any, Literal
 
-from dropcalc.errors import InputError
+from dropcalc.errors import InputError, shorten
 
 if TYPE_CHECKING:  # pragma: no cover - typing only, never imported at run time
     import pint
@@ -273,20 +273,26 @@ def _normalise_unit(unit: str, kind: str) -> str:
     return unit
 
 
+def _show(raw: str) -> str:
+    """A typed value as quoted in a message: control characters escaped, long text cut."""
+    escaped = raw.encode("unicode_escape").decode("ascii") if not raw.isprintable() else raw
+    return shorten(escaped, 60)
+
+
 def _read_number(text: str, raw: str, field: str, spec: Kind) -> float:
     """Read the number part, accepting a decimal comma; refuse a thousands separator."""
     if "," in text:
         if _THOUSANDS_RE.match(text):
             alternatives = raw.replace(",", ".", 1), raw.replace(",", "", 1)
             raise InputError(
-                f'{field}: "{raw}" is ambiguous (is the comma a decimal point?); '
+                f'{field}: "{_show(raw)}" is ambiguous (is the comma a decimal point?); '
                 f'write "{alternatives[0]}" or "{alternatives[1]}" without thousands separators'
             )
         text = text.replace(",", ".")
     number = float(text)
     if not math.isfinite(number):
         raise InputError(
-            f'{field}: "{raw}" is not a finite number; '
+            f'{field}: "{_show(raw)}" is not a finite number; '
             f"expected {spec.noun} (e.g. {_examples(spec)})"
         )
     return number
@@ -322,8 +328,8 @@ def _bare(number: float, raw: str, kind: str, field: str, spec: Kind) -> float:
     """Convert a number given without a unit (the kind's default unit) to SI."""
     if kind == "fraction" and number > 1.0:
         raise InputError(
-            f'{field}: a number without a unit must be a fraction from 0 to 1; got "{raw}" '
-            f'(for a percentage write "{raw} %")'
+            f'{field}: a number without a unit must be a fraction from 0 to 1; got "{_show(raw)}" '
+            f'(for a percentage write "{_show(raw)} %")'
         )
     return number + spec.bare_offset
 
@@ -390,7 +396,9 @@ def parse_quantity(value: str | float | int, kind: str, field: str) -> float:
         raise InputError(f"{field}: no value given; expected {spec.noun} (e.g. {_examples(spec)})")
     match = _NUMBER_RE.match(raw.replace("−", "-"))
     if match is None:
-        raise InputError(f'{field}: could not read "{raw}" as {spec.noun} (e.g. {_examples(spec)})')
+        raise InputError(
+            f'{field}: could not read "{_show(raw)}" as {spec.noun} (e.g. {_examples(spec)})'
+        )
     number = _read_number(match["number"], raw, field, spec)
     unit_text = match["unit"]
     if not unit_text:
@@ -411,7 +419,7 @@ def _convert(number: float, unit_text: str, raw: str, field: str, spec: Kind) ->
         if math.isfinite(result):
             return result
     registry = unit_registry()
-    cannot_read = f'{field}: could not read "{raw}" as {spec.noun} (e.g. {_examples(spec)})'
+    cannot_read = f'{field}: could not read "{_show(raw)}" as {spec.noun} (e.g. {_examples(spec)})'
     try:
         units = registry.parse_units(unit_text)
     except Exception as error:  # pint raises several unrelated types for unreadable units
@@ -423,7 +431,7 @@ def _convert(number: float, unit_text: str, raw: str, field: str, spec: Kind) ->
     unit_allowed = spec.allowed_units is None or str(units) in spec.allowed_units
     if units.dimensionality != _dimensionality(spec.dimensionality) or not unit_allowed:
         raise InputError(
-            f'{field}: expected {spec.noun} (e.g. {_examples(spec)}); got "{raw}" '
+            f'{field}: expected {spec.noun} (e.g. {_examples(spec)}); got "{_show(raw)}" '
             f"({_describe(units)})"
         )
     try:
@@ -432,7 +440,7 @@ def _convert(number: float, unit_text: str, raw: str, field: str, spec: Kind) ->
         raise InputError(cannot_read) from error
     if not math.isfinite(result):
         raise InputError(
-            f'{field}: "{raw}" is too large to represent; expected {spec.noun} '
+            f'{field}: "{_show(raw)}" is too large to represent; expected {spec.noun} '
             f"(e.g. {_examples(spec)})"
         )
     if (unit_text, id(spec)) not in _CONVERSIONS:

@@ -204,6 +204,49 @@ def test_tiny_drag_speed_is_continuous_with_vacuum() -> None:
     assert float(speed) == pytest.approx(math.sqrt(2.0 * G * 0.5), rel=1e-9)
 
 
+@pytest.mark.parametrize("drag_parameter", [1.17549435e-38, 1e-30, 1e-20, 1e-14, 1e-10])
+@pytest.mark.parametrize(
+    ("drop_height", "downward_speed"), [(0.001, 1.0), (2.0, 30.0), (50.0, 5.0)]
+)
+def test_tiny_drag_with_a_downward_start_is_galileo(
+    drag_parameter: float, drop_height: float, downward_speed: float
+) -> None:
+    # Found by the property tests: with k -> 0 and a downward start the difference form of
+    # t(h) cancelled and gave a negative time (-0.088 s for 1 mm at 1 m/s, k = 1.2e-38).
+    # Galileo with a start speed: t = (sqrt(w0^2 + 2 g h) - w0) / g; the drag correction is
+    # of relative size k (h + w0^2/g) <= 1e-7 here.
+    time, speed = vertical_fall(drop_height, downward_speed, drag_parameter, G)
+    end_speed = math.sqrt(downward_speed**2 + 2.0 * G * drop_height)
+    tolerance = 1e-12 + 10 * drag_parameter * (drop_height + downward_speed**2 / G)
+    assert float(time) == pytest.approx((end_speed - downward_speed) / G, rel=tolerance)
+    assert float(speed) == pytest.approx(end_speed, rel=tolerance)
+
+
+@pytest.mark.parametrize("ratio", [0.0, 0.3, 1.0, 2.5])
+@pytest.mark.parametrize("drop", [1e-9, 0.5, 1.0 - 1e-9, 1.0 + 1e-9, 3.0])
+def test_fall_time_solves_the_printed_position_law_on_both_sides_of_the_short_form(
+    ratio: float, drop: float
+) -> None:
+    # Timmerman and van der Weele (1999): from w0 = r v_t downward, the distance fallen is
+    # (v_t^2/g) ln(cosh(g t/v_t + phi)/cosh(phi)), phi = artanh(r) (r < 1), or with sinh and
+    # psi = arcoth(r) (r > 1), or v_t t (r = 1). The module switches formula at
+    # x = g h / v_t^2 = 1; the time it gives must put the object at h on both sides.
+    k = 0.05
+    vt = terminal(k)
+    h = drop * vt**2 / G
+    (time,) = np.atleast_1d(vertical_fall(h, ratio * vt, k, G)[0])
+    a = G * float(time) / vt
+    if ratio < 1.0:
+        phi = math.atanh(ratio)
+        fallen = vt**2 / G * (math.log(math.cosh(a + phi)) - math.log(math.cosh(phi)))
+    elif ratio > 1.0:
+        psi = math.atanh(1.0 / ratio)
+        fallen = vt**2 / G * (math.log(math.sinh(a + psi)) - math.log(math.sinh(psi)))
+    else:
+        fallen = vt * float(time)
+    assert fallen == pytest.approx(h, rel=1e-9)
+
+
 def test_95_and_99_percent_of_terminal_speed() -> None:
     # REFERENCES.md §1 [derived]: 95 % of v_t after 1.1640 v_t^2/g of fall, 99 % after
     # 1.9585 v_t^2/g. Recomputed here from v(h) = v_t sqrt(1 - exp(-2gh/v_t^2)):

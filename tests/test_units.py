@@ -226,7 +226,8 @@ def test_wrong_dimension_names_field_value_and_both_dimensions(
     "value",
     ["", "   ", "nan", "NaN m", "inf", "-inf m", "infinity", float("nan"), float("inf"),
      -float("inf"), "1e400 m", "1e308 km", "twelve", "m", "12 kgs", "5 ft 3 in", "12 m m ((",
-     "1,2,3 m", "12 $", None, True, [12]],
+     "1,2,3 m", "12 $", None, True, [12],
+     "0\n0", "1\r2 m", "x" * 500],  # a line break inside (found by the property tests), huge
 )  # fmt: skip
 def test_bad_values_raise_one_line_input_error_naming_the_field(value: object) -> None:
     with pytest.raises(InputError) as caught:
@@ -234,6 +235,8 @@ def test_bad_values_raise_one_line_input_error_naming_the_field(value: object) -
     message = str(caught.value)
     assert message.startswith("--height: ")
     assert "\n" not in message
+    assert "\r" not in message
+    assert len(message) < 200
     assert "length" in message
 
 

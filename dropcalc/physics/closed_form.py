@@ -46,6 +46,10 @@ def _log_sinh(x: NDArray[np.float64]) -> NDArray[np.float64]:
     return x + np.log(-np.expm1(-2.0 * x)) - np.log(2.0)
 
 
+#: Below this relative drag effect k (h + w0^2 / g) [-] a fall is solved as in vacuum.
+VACUUM_DRAG_EFFECT = 1e-30
+
+
 def vertical_fall(
     drop_height: ArrayLike,
     downward_speed: ArrayLike,
@@ -92,7 +96,10 @@ def vertical_fall(
     time = np.empty(h.shape)
     speed = np.empty(h.shape)
 
-    vacuum = k == 0.0
+    # No drag, or so little that its relative effect, about k (h + w0^2 / g), is far below
+    # rounding (a subnormal k would otherwise underflow the dimensionless drop to zero).
+    with np.errstate(over="ignore", invalid="ignore"):
+        vacuum = (k == 0.0) | (k * (h + w0 * w0 / g) < VACUUM_DRAG_EFFECT)
     if np.any(vacuum):
         hv, wv, gv = h[vacuum], w0[vacuum], g[vacuum]
         v_end = np.sqrt(wv * wv + 2.0 * gv * hv)
@@ -117,16 +124,40 @@ def vertical_fall(
         speed[drag] = vt * np.sqrt(ratio**2 * np.exp(-2.0 * x) - np.expm1(-2.0 * x))
         tau = vt / gd
         t_fall = np.empty_like(hd)
-        slow = ratio < 1.0
+        # Short drops (x <= 1): the difference form below cancels when the drop is tiny beside
+        # the start speed's own scale (k -> 0 with a downward start); solve directly for
+        # D = g t / v_t instead (see _drag_time_short).
+        short = x <= 1.0
+        t_fall[short] = tau[short] * _drag_time_short(x[short], ratio[short])
+        slow = ~short & (ratio < 1.0)
         phi = np.arctanh(ratio[slow])
         t_fall[slow] = tau[slow] * (_log_arccosh_of_exp(_log_cosh(phi) + x[slow]) - phi)
-        fast = ratio > 1.0
+        fast = ~short & (ratio > 1.0)
         psi = np.arctanh(1.0 / ratio[fast])
         t_fall[fast] = tau[fast] * (_log_arcsinh_of_exp(_log_sinh(psi) + x[fast]) - psi)
-        at_terminal = ratio == 1.0
+        at_terminal = ~short & (ratio == 1.0)
         t_fall[at_terminal] = hd[at_terminal] / vt[at_terminal]
         time[drag] = t_fall + t_extra
     return time, speed
+
+
+def _drag_time_short(drop: NDArray[np.float64], ratio: NDArray[np.float64]) -> NDArray[np.float64]:
+    """Dimensionless fall time D = g t / v_t for a dimensionless drop x = g h / v_t^2 <= 1.
+
+    Both downward branches of :func:`vertical_fall` (tanh below terminal speed, coth above)
+    reduce to one equation in D with r = w0 / v_t >= 0 (the start speed over terminal):
+    cosh(D) + r sinh(D) = e^x. Its root s = e^D of (1 + r) s^2 - 2 e^x s + (1 - r) = 0 is
+    written so that nothing cancels as x -> 0 or r -> 0:
+
+        s - 1 = (expm1(x) + q / (sqrt(q + r^2) + r)) / (1 + r),   q = expm1(2 x),
+        D = log1p(s - 1).
+
+    From rest (r = 0) this is D = arccosh(e^x); at terminal speed (r = 1), D = x.
+    """
+    q = np.expm1(2.0 * drop)
+    growth = np.expm1(drop) + q / (np.sqrt(q + ratio * ratio) + ratio)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        return np.log1p(np.where(q > 0.0, growth, 0.0) / (1.0 + ratio))
 
 
 def speed_after_time(

@@ -374,9 +374,10 @@ def _assemble_paths(
     """Sort the recorded steps into one (7, m) array per lane and end each at its result.
 
     The steps of one lane were recorded in time order, so a stable sort by lane keeps them in
-    it. The contact's Taylor step may end a hair before the last accepted step (when that step
-    ended just below the ground), and an abandoned lane ends where its last step did: recorded
-    steps at or after the final time are dropped, so times increase strictly.
+    it. The contact's Taylor step often ends a hair before the last accepted step (when that
+    step ended just below the ground, within the contact tolerance), and an abandoned lane
+    ends where its last step did: recorded steps at or after the final time are dropped, so
+    times increase strictly and the last column is exactly the lane's result.
     """
     steps = np.hstack(record)
     steps = steps[:, np.argsort(steps[0], kind="stable")]
