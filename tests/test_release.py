@@ -429,3 +429,13 @@ def test_describe_mentions_carrier_and_ranges() -> None:
     text = describe(Release("push", speed=np.array([1.0, 3.0]), carrier_velocity=(0, 0, 1.5)))
     assert "1.0–3.0 m/s" in text
     assert "up 1.5" in text
+
+
+def test_a_tiny_start_speed_on_a_level_frictionless_roof_keeps_its_speed() -> None:
+    # Found by the property tests: v0 = 1e-300 squared underflows to 0, which read as "stops
+    # on the roof" and then divided by a zero deceleration. With no deceleration the object
+    # keeps v0 to the eave (Newton's first law).
+    from dropcalc.physics.release import eave_exit_speed
+
+    speed = eave_exit_speed(0.0, 1.0, 0.0, 9.80665, initial_speed=1e-300)
+    assert float(speed) == 1e-300

@@ -452,3 +452,9 @@ def test_bad_fragment_and_hop_inputs_name_the_field() -> None:
         fragment_allowance(3.0, speed_fraction=1.5)
     with pytest.raises(InputError, match="hops"):
         hop_distance(10.0, 2.0, 0.4, 0.8, 1.5)
+
+
+def test_fragment_fraction_too_large_for_a_float_is_refused_by_name() -> None:
+    # Found by the property tests: an integer of 10^400 raised OverflowError when formatted.
+    with pytest.raises(InputError, match="speed_fraction"):
+        fragment_allowance(0.0, speed_fraction=10**400)

@@ -630,7 +630,8 @@ def _check_roof_slide(
             f"atan({f:g})); lower the friction or choose another release mode"
         )
     squared = v0**2 + 2.0 * acceleration * length
-    stops = squared <= 0
+    # Only a decelerating object can stop (v0^2 of a tiny v0 underflows to 0 without that).
+    stops = (squared <= 0) & (acceleration < 0)
     if np.any(stops):
         i = np.flatnonzero(np.atleast_1d(stops))[0]
         a, v, s = (float(np.atleast_1d(x)[i]) for x in (acceleration, v0, length))
@@ -640,7 +641,8 @@ def _check_roof_slide(
             f"stops {v * v / (-2.0 * a):.2f} m down the roof, before the eave {s:g} m away; "
             "raise release_speed, lower the friction or choose another release mode"
         )
-    return np.sqrt(squared)
+    exit_speed = np.sqrt(np.maximum(squared, 0.0))
+    return np.where(acceleration >= 0, np.maximum(exit_speed, v0), exit_speed)
 
 
 def _span(value: ArrayLike, spec: str) -> str:

@@ -61,7 +61,7 @@ from types import MappingProxyType
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
-from dropcalc.errors import InputError, UnknownObjectError
+from dropcalc.errors import InputError, UnknownObjectError, to_float
 from dropcalc.physics.checks import as_samples as _as_samples
 from dropcalc.physics.checks import check_gravity
 from dropcalc.physics.checks import first_bad as _first_bad
@@ -651,9 +651,9 @@ def fragment_allowance(
     """
     speed = _check_speed("impact_speed", impact_speed)
     g = check_gravity(gravity)
-    fraction = float(speed_fraction)
+    fraction = to_float("speed_fraction", speed_fraction)
     if not 0.0 < fraction <= 1.0:
-        raise InputError(f"speed_fraction must be in (0, 1]; got {speed_fraction:g}")
+        raise InputError(f"speed_fraction must be in (0, 1]; got {fraction:g}")
     _common_length(impact_speed=speed, gravity=g)
     return _fragment_range(speed, g, fraction)
 
