@@ -72,7 +72,7 @@ def require_finite_positive(
     bound = ">= 0" if allow_zero else "> 0"
     ok = v == v and v not in (float("inf"), float("-inf")) and (v >= 0 if allow_zero else v > 0)
     if not ok:
-        raise InputError(f"{name} must be a finite value {bound} {unit}; got {value:g} {unit}")
+        raise InputError(f"{name} must be a finite value {bound} {unit}; got {v:g} {unit}")
     return v
 
 
@@ -81,7 +81,7 @@ def require_range(name: str, value: float, low: float, high: float, unit: str) -
     v = to_float(name, value, unit)
     if not (v == v and low <= v <= high):
         raise InputError(
-            f"{name} must be between {low:g} and {high:g} {unit}; got {value:g} {unit}".rstrip()
+            f"{name} must be between {low:g} and {high:g} {unit}; got {v:g} {unit}".rstrip()
         )
     return v
 

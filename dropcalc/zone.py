@@ -28,7 +28,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from dropcalc.errors import InputError, to_float
+from dropcalc.errors import InputError, require_range, to_float
 from dropcalc.fall import CARRIED_AWAY_DISTANCE, wind_field
 from dropcalc.physics.atmosphere import AirState, air_state
 from dropcalc.physics.release import Release, initial_velocity
@@ -186,27 +186,18 @@ class ZoneSettings:
         height = to_float("height", self.height, "m")
         if not (math.isfinite(height) and 0 < height <= 5000):
             raise InputError(f"height must be a finite length > 0 and <= 5000 m; got {height:g} m")
-        if not (0.5 <= self.confidence <= 0.9999):
-            raise InputError(f"confidence must be between 0.5 and 0.9999; got {self.confidence:g}")
-        if not (math.isfinite(self.margin) and 0 <= self.margin <= 100):
-            raise InputError(f"margin must be between 0 and 100 m; got {self.margin:g} m")
+        require_range("confidence", self.confidence, 0.5, 0.9999, "")
+        require_range("margin", self.margin, 0.0, 100.0, "m")
         from dropcalc.fall import GRAVITY_RANGE
 
-        g_low, g_high = GRAVITY_RANGE
-        if not (g_low <= self.gravity <= g_high):
-            raise InputError(
-                f"gravity must be between {g_low:g} and {g_high:g} m/s²; got {self.gravity:g}"
-            )
-        if not math.isfinite(self.edge_azimuth):
+        require_range("gravity", self.gravity, *GRAVITY_RANGE, "m/s²")
+        if not math.isfinite(to_float("edge_azimuth", self.edge_azimuth, "deg")):
             raise InputError(f"edge_azimuth must be a finite angle; got {self.edge_azimuth}")
         if isinstance(self.seed, bool) or not isinstance(self.seed, int) or self.seed < 0:
             raise InputError(f"seed must be a whole number >= 0; got {self.seed!r}")
         if not (isinstance(self.max_samples, int) and self.max_samples >= 1000):
             raise InputError(f"max_samples must be a whole number >= 1000; got {self.max_samples}")
-        if not (0.001 <= self.relative_error <= 0.2):
-            raise InputError(
-                f"relative_error must be between 0.001 and 0.2; got {self.relative_error:g}"
-            )
+        require_range("relative_error", self.relative_error, 0.001, 0.2, "")
 
 
 @dataclass(frozen=True)

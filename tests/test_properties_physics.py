@@ -1110,3 +1110,28 @@ def test_regression_zone_object_drag_areas_in_the_wrong_order() -> None:
 def test_regression_a_subnormal_release_height_is_refused() -> None:
     # Found by probing by hand: it used to land at time 0. Heights below 1 cm are now refused.
     _raises_input_error_naming("height", lambda: FallCase(1e5, 1e-7, 5e-324))
+
+
+#: An integer too large for a float (found by exploring with random seeds: formatting it with
+#: ":g" or passing it to math.isfinite raised OverflowError instead of InputError).
+HUGE_INT = 10**400
+
+
+@pytest.mark.parametrize(
+    ("field", "call"),
+    [
+        ("minimum_height", lambda: wind_spec(0.0, minimum_height=HUGE_INT)),
+        ("edge_azimuth", lambda: FallCase(1.0, 1.0, 1.0, edge_azimuth=HUGE_INT)),
+        ("confidence", lambda: ZoneSettings(height=1.0, confidence=HUGE_INT)),
+        ("margin", lambda: ZoneSettings(height=1.0, margin=HUGE_INT)),
+        ("gravity", lambda: ZoneSettings(height=1.0, gravity=HUGE_INT)),
+        ("edge_azimuth", lambda: ZoneSettings(height=1.0, edge_azimuth=HUGE_INT)),
+        ("relative_error", lambda: ZoneSettings(height=1.0, relative_error=HUGE_INT)),
+    ],
+    ids=["wind-minimum-height", "fall-azimuth", "confidence", "margin", "gravity",
+         "zone-azimuth", "relative-error"],
+)  # fmt: skip
+def test_regression_an_integer_too_large_for_a_float_is_refused_by_name(
+    field: str, call: Callable[[], Any]
+) -> None:
+    _raises_input_error_naming(field, call)
