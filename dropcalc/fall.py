@@ -133,10 +133,10 @@ class FallCase:
     def __post_init__(self) -> None:
         check_object(self.mass, self.drag_area, self.height, self.contact_area, self.drag_area_max)
         _check_range("gravity", self.gravity, *GRAVITY_RANGE, "m/s²")
-        if not math.isfinite(to_float("edge_azimuth", self.edge_azimuth, "deg")):
-            raise InputError(
-                f"edge_azimuth must be a finite angle in degrees; got {self.edge_azimuth}"
-            )
+        azimuth = to_float("edge_azimuth", self.edge_azimuth, "deg")
+        if not math.isfinite(azimuth):
+            raise InputError(f"edge_azimuth must be a finite angle in degrees; got {azimuth:g}")
+        object.__setattr__(self, "edge_azimuth", azimuth)  # a float from here on, not an int
 
 
 @dataclass(frozen=True)

@@ -191,8 +191,10 @@ class ZoneSettings:
         from dropcalc.fall import GRAVITY_RANGE
 
         require_range("gravity", self.gravity, *GRAVITY_RANGE, "m/s²")
-        if not math.isfinite(to_float("edge_azimuth", self.edge_azimuth, "deg")):
-            raise InputError(f"edge_azimuth must be a finite angle; got {self.edge_azimuth}")
+        azimuth = to_float("edge_azimuth", self.edge_azimuth, "deg")
+        if not math.isfinite(azimuth):
+            raise InputError(f"edge_azimuth must be a finite angle; got {azimuth:g}")
+        object.__setattr__(self, "edge_azimuth", azimuth)  # a float from here on, not an int
         if isinstance(self.seed, bool) or not isinstance(self.seed, int) or self.seed < 0:
             raise InputError(f"seed must be a whole number >= 0; got {self.seed!r}")
         if not (isinstance(self.max_samples, int) and self.max_samples >= 1000):

@@ -1127,11 +1127,20 @@ HUGE_INT = 10**400
         ("gravity", lambda: ZoneSettings(height=1.0, gravity=HUGE_INT)),
         ("edge_azimuth", lambda: ZoneSettings(height=1.0, edge_azimuth=HUGE_INT)),
         ("relative_error", lambda: ZoneSettings(height=1.0, relative_error=HUGE_INT)),
+        ("edge_azimuth", lambda: initial_velocity(Release("push", 1.0), HUGE_INT)),
     ],
     ids=["wind-minimum-height", "fall-azimuth", "confidence", "margin", "gravity",
-         "zone-azimuth", "relative-error"],
+         "zone-azimuth", "relative-error", "release-azimuth"],
 )  # fmt: skip
 def test_regression_an_integer_too_large_for_a_float_is_refused_by_name(
     field: str, call: Callable[[], Any]
 ) -> None:
     _raises_input_error_naming(field, call)
+
+
+def test_regression_an_integer_beyond_int64_is_read_as_a_float_angle() -> None:
+    # Found by exploring: -2**63 - 1 made numpy build an object array (np.radians TypeError).
+    case = FallCase(1.0, 1.0, 1.0, edge_azimuth=-(2**63) - 1)
+    assert isinstance(case.edge_azimuth, float)
+    result = solve_fall(case)
+    assert math.isfinite(result.to_json()["impact_speed_m_s"])

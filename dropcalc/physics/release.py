@@ -411,8 +411,8 @@ def initial_velocity(
         For a non-finite azimuth or gravity, arrays of different lengths, or a roof slide that
         stops before the eave.
     """
-    azimuth = np.asarray(edge_azimuth, dtype=float)
-    if azimuth.ndim > 1 or not np.all(np.isfinite(azimuth)):
+    azimuth = _as_samples("edge_azimuth", edge_azimuth)
+    if not np.all(np.isfinite(azimuth)):
         raise InputError(
             f"edge_azimuth must be a finite angle in deg (or a 1-D array of them); got "
             f"{_first_bad(azimuth, np.isfinite(azimuth)):g} deg"
