@@ -620,6 +620,13 @@ def zone(
         float, typer.Option(help="Target standard error of the radius, relative (0.01 = 1 %).")
     ] = 0.01,
     seed: Annotated[int, typer.Option(help="Random seed (same seed, same answer).")] = 1,
+    contact_tilt: Annotated[
+        str,
+        typer.Option(
+            help="Largest tilt of the contact at the first bounce, which sends a dropped "
+            'object sideways (default 15 deg; "0 deg" is a flat, mirror-like bounce).'
+        ),
+    ] = "15 deg",
     barricade: Annotated[
         str | None,
         typer.Option(
@@ -660,7 +667,13 @@ def zone(
     """Exclusion distance from the work edge: Monte Carlo at a confidence, and the worst case."""
     try:
         from dropcalc.physics.scatter import surface
-        from dropcalc.zone import ZoneSettings, compute_zone, greatest_height, highest_wind
+        from dropcalc.zone import (
+            Uncertainty,
+            ZoneSettings,
+            compute_zone,
+            greatest_height,
+            highest_wind,
+        )
 
         env = _environment(
             wind=wind, wind_kind=wind_kind, wind_from=wind_from, wind_profile=wind_profile,
@@ -711,6 +724,7 @@ def zone(
             margin=float(_q(margin, "length", "--margin")),
             relative_error=precision,
             seed=seed,
+            uncertainty=Uncertainty(contact_tilt=_contact_tilt(contact_tilt, "--contact-tilt")),
         )
         site_result = None
         if plan is not None:
@@ -930,6 +944,13 @@ def demo(
         return
     typer.echo(_report_lines(summary))
     typer.echo(f"Demo files in {out}/: " + ", ".join(Path(f).name for f in files.values()))
+
+
+def _contact_tilt(text: str, field: str) -> float:
+    """The contact tilt in degrees, 0 to 45 (raises InputError naming ``field``)."""
+    from dropcalc.errors import require_range
+
+    return require_range(field, _q(text, "angle", field), 0.0, 45.0, "deg")
 
 
 def _refuse_to_overwrite_edits(out: Path, source: Path, names: tuple[str, ...]) -> None:

@@ -31,7 +31,9 @@ _KEYS: dict[str, set[str]] = {
         "ground", "origin", "outline",
     },
     "wind": {"speed", "kind", "from", "terrain", "profile", "exponent", "roughness"},
-    "policy": {"confidence", "margin", "levels", "rules_file", "precision", "seed"},
+    "policy": {
+        "confidence", "margin", "levels", "rules_file", "precision", "seed", "contact_tilt",
+    },  # fmt: skip
     "work_area": {
         "name", "release", "release_speed", "release_angle", "roof_pitch", "roof_length",
         "friction", "rolling", "edge",
@@ -69,6 +71,7 @@ class Scenario:
     margin: float
     precision: float
     seed: int
+    contact_tilt: float
     levels: tuple[Any, ...]
     rules: tuple[Any, ...]
     library: Any
@@ -150,7 +153,7 @@ def load_scenario(path: Path) -> Scenario:
     from dropcalc.physics.atmosphere import air_state
     from dropcalc.physics.gravity import gravity as local_gravity
     from dropcalc.physics.release import DEFAULT_ROOF_FRICTION, Release
-    from dropcalc.physics.scatter import surface
+    from dropcalc.physics.scatter import CONTACT_TILT_MAX, surface
     from dropcalc.physics.wind import wind_spec
     from dropcalc.plan import Site, WorkEdge
     from dropcalc.policy import DEFAULT_RULES, load_policy
@@ -291,6 +294,13 @@ def load_scenario(path: Path) -> Scenario:
     if not (0.001 <= precision <= 0.2):
         raise where.error("policy.precision", f"must be between 0.001 and 0.2; got {precision}")
     seed = number(policy.get("seed", 1), "policy.seed", int)
+    contact_tilt = quantity(
+        policy.get("contact_tilt", CONTACT_TILT_MAX), "angle", "policy.contact_tilt"
+    )
+    if not (0 <= contact_tilt <= 45):
+        raise where.error(
+            "policy.contact_tilt", f"must be between 0 and 45 deg; got {contact_tilt:g} deg"
+        )
     level_keys = policy.get("levels", list(DEFAULT_LEVEL_KEYS))
     if not isinstance(level_keys, list):
         raise where.error("policy.levels", "expected a list of reference level keys")
@@ -425,6 +435,7 @@ def load_scenario(path: Path) -> Scenario:
         margin=margin,
         precision=precision,
         seed=seed,
+        contact_tilt=contact_tilt,
         levels=levels,
         rules=rules,
         library=library,

@@ -33,13 +33,16 @@ from dropcalc.fall import CARRIED_AWAY_DISTANCE, wind_field
 from dropcalc.physics.atmosphere import AirState, air_state
 from dropcalc.physics.release import Release, initial_velocity
 from dropcalc.physics.scatter import (
+    CONTACT_TILT_MAX,
     Surface,
+    first_rebound,
+    fragment_allowance,
     sample_rolling_resistance,
     sample_surface,
     scatter_distance,
     surface,
 )
-from dropcalc.physics.trajectory import solve_falls
+from dropcalc.physics.trajectory import FallSolution, solve_falls
 from dropcalc.physics.wind import WindSpec, turbulence_intensity, wind_spec
 
 #: Integrator tolerance for zone samples: 1e-6 keeps positions to ~1e-5 relative, far inside the
@@ -131,6 +134,11 @@ class Uncertainty:
     density_spread : float
         Relative half-width of the uniform spread of air density during the work (a +-15 K
         day is +-5 %, from the ideal gas law). [-]
+    contact_tilt : float
+        Largest tilt of the effective contact normal at the first ground contact
+        (:data:`~dropcalc.physics.scatter.CONTACT_TILT_MAX`, an assumption): the normal points
+        anywhere in the cone of this half-angle about the vertical with equal probability
+        (cos of the tilt uniform), in a uniformly random direction. [deg]
     """
 
     turbulence_intensity: float | None = None
@@ -141,6 +149,7 @@ class Uncertainty:
     friction_spread: float = 0.2
     drag_coefficient_spread: float = 0.10
     density_spread: float = 0.05
+    contact_tilt: float = CONTACT_TILT_MAX
 
     def __post_init__(self) -> None:
         checks = (
@@ -151,6 +160,7 @@ class Uncertainty:
             ("friction_spread", self.friction_spread, 0.0, 0.9),
             ("drag_coefficient_spread", self.drag_coefficient_spread, 0.0, 0.5),
             ("density_spread", self.density_spread, 0.0, 0.3),
+            ("contact_tilt", self.contact_tilt, 0.0, 45.0),
         )
         for name, value, low, high in checks:
             value = to_float(name, value)
@@ -317,17 +327,35 @@ def _rest_positions(
     e_t: np.ndarray,
     friction: np.ndarray,
     rolling_resistance: np.ndarray | None,
+    tilt: np.ndarray,
+    tilt_azimuth: np.ndarray,
     obj: ZoneObject,
     settings: ZoneSettings,
 ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """Solve falls and add the scatter: rest offsets (2, n), air drift (n), landed (n)."""
+    solution = _land(obj_mass, drag_area, density, wind_speed, wind_toward, velocity0, settings)
+    return _rest_after_landing(
+        solution, e_n, e_t, friction, rolling_resistance, tilt, tilt_azimuth, obj, settings
+    )
+
+
+def _land(
+    obj_mass: np.ndarray,
+    drag_area: np.ndarray,
+    density: np.ndarray,
+    wind_speed: np.ndarray,
+    wind_toward: np.ndarray,
+    velocity0: np.ndarray,
+    settings: ZoneSettings,
+) -> FallSolution:
+    """Solve the falls to their first ground contact."""
     from dataclasses import replace
 
     k = density * drag_area / (2.0 * obj_mass)
     toward = np.radians(wind_toward)
     base = wind_field(settings.wind, wind_speed)
     field_ = replace(base, toward_east=np.sin(toward), toward_north=np.cos(toward))
-    solution = solve_falls(
+    return solve_falls(
         settings.height,
         velocity0,
         k,
@@ -336,21 +364,44 @@ def _rest_positions(
         tolerance=ZONE_TOLERANCE,
         max_distance=CARRIED_AWAY,
     )
+
+
+def _rest_after_landing(
+    solution: FallSolution,
+    e_n: np.ndarray,
+    e_t: np.ndarray,
+    friction: np.ndarray,
+    rolling_resistance: np.ndarray | None,
+    tilt: np.ndarray,
+    tilt_azimuth: np.ndarray,
+    obj: ZoneObject,
+    settings: ZoneSettings,
+) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Add the scatter after the first contact: rest offsets (2, n), air drift (n), landed (n).
+
+    The first contact is on a tilted effective normal (:func:`first_rebound`); the hops and the
+    slide then go on along the rebound's horizontal direction.
+    """
     landing = solution.position[:2]
     drift = np.hypot(landing[0], landing[1])
     v = solution.velocity
     horizontal = np.where(solution.landed, np.hypot(v[0], v[1]), 0.0)
     vertical = np.where(solution.landed, np.maximum(-v[2], 0.0), 0.0)
+    rebound = first_rebound(vertical, horizontal, tilt, tilt_azimuth, e_n, e_t)
     extra = scatter_distance(
-        vertical, horizontal, e_n, e_t, friction, gravity=settings.gravity, rolls=obj.rolls,
-        rolling_resistance=rolling_resistance if obj.rolls else None, fragile=obj.fragile,
+        rebound.vertical_speed, rebound.horizontal_speed, e_n, e_t, friction,
+        gravity=settings.gravity, rolls=obj.rolls,
+        rolling_resistance=rolling_resistance if obj.rolls else None,
     ).total  # fmt: skip
-    # Scatter goes along the horizontal impact direction (outward when the impact is vertical).
+    if obj.fragile:  # fragments fly from the impact speed itself, not the flat equivalent
+        extra = extra + fragment_allowance(np.hypot(vertical, horizontal), gravity=settings.gravity)
+    # The rebound leaves along the horizontal impact direction (outward when the impact is
+    # vertical) turned by the tilt.
     out = math.radians(settings.edge_azimuth)
     with np.errstate(invalid="ignore", divide="ignore"):
-        dx = np.where(horizontal > 1e-9, v[0] / horizontal, math.sin(out))
-        dy = np.where(horizontal > 1e-9, v[1] / horizontal, math.cos(out))
-    rest = landing + extra * np.vstack([dx, dy])
+        base = np.where(horizontal > 1e-9, np.arctan2(v[0], v[1]), out)  # compass, from north
+    heading = base - rebound.turn  # the turn is counter-clockwise seen from above
+    rest = landing + extra * np.vstack([np.sin(heading), np.cos(heading)])
     rest[:, ~solution.landed] = np.nan
     drift = np.where(solution.landed, drift, np.nan)  # abandoned samples did not land
     return rest, drift, solution.landed
@@ -382,9 +433,14 @@ def sample_object(
     density = settings.air.density * rng.uniform(1 - unc.density_spread, 1 + unc.density_spread, n)
     e_n, e_t, friction = sample_surface(settings.ground, n, rng)
     rolling = sample_rolling_resistance(settings.ground, n, rng) if obj.rolls else None
+    velocity0 = _release_velocities(settings, n, rng)
+    # Contact normal uniform over the cone of half-angle contact_tilt: cos(tilt) uniform.
+    lowest_cos = math.cos(math.radians(unc.contact_tilt))
+    tilt = np.degrees(np.arccos(np.clip(rng.uniform(lowest_cos, 1.0, n), -1.0, 1.0)))
+    tilt_azimuth = rng.uniform(0.0, 360.0, n)
     return _rest_positions(
-        np.full(n, obj.mass), drag_area, density, wind_speed, toward,
-        _release_velocities(settings, n, rng), e_n, e_t, friction, rolling, obj, settings,
+        np.full(n, obj.mass), drag_area, density, wind_speed, toward, velocity0, e_n, e_t,
+        friction, rolling, tilt, tilt_azimuth, obj, settings,
     )  # fmt: skip
 
 
@@ -417,7 +473,8 @@ def envelope_distance(obj: ZoneObject, settings: ZoneSettings) -> float:
     gust speed blowing straight out from the edge, the highest release speed pointing straight
     out, the drag area over its whole range (nine log-spaced values, each at the low and high
     end of the Cd spread), the throw angle over its range, the air density at both ends of its
-    range, upper restitution and lower friction. The drag area and throw angle are searched on a
+    range, both ends of the restitution ranges, lower friction and the first contact's tilt
+    over its cone (:func:`_farthest_rest`). The drag area and throw angle are searched on a
     grid refined twice around the farthest point (the farthest landing need not be at either
     end of a range when a push and the wind compete); the search is good to well under a
     millimetre and :data:`ENVELOPE_SEARCH_ALLOWANCE` is added for it.
@@ -457,17 +514,13 @@ def envelope_distance(obj: ZoneObject, settings: ZoneSettings) -> float:
                 initial_velocity(release, settings.edge_azimuth, settings.gravity), dtype=float
             ).reshape(3, 1) * np.ones((1, a_flat.size))
         m = a_flat.size
-        rest, _, landed = _rest_positions(
+        solution = _land(
             np.full(m, obj.mass), np.exp(a_flat), d_flat, np.full(m, gust),
-            np.full(m, settings.edge_azimuth), v0,
-            np.full(m, settings.ground.normal_restitution[1]),
-            np.full(m, settings.ground.tangential_restitution[1]),
-            np.full(m, settings.ground.friction[0]),
-            np.full(m, settings.ground.rolling_resistance[0]), obj, settings,
+            np.full(m, settings.edge_azimuth), v0, settings,
         )  # fmt: skip
-        if not np.all(landed):
+        if not np.all(solution.landed):
             return math.inf, 0, 0
-        distance = np.hypot(rest[0], rest[1]).reshape(a_grid.shape)
+        distance = _farthest_rest(solution, obj, settings).reshape(a_grid.shape)
         i, _, j = np.unravel_index(int(np.argmax(distance)), distance.shape)
         return float(distance.max()), int(i), int(j)
 
@@ -495,6 +548,59 @@ def envelope_distance(obj: ZoneObject, settings: ZoneSettings) -> float:
             t_lo = max(angle_range[0], angles[j] - angle_step)
             t_hi = min(angle_range[1], angles[j] + angle_step)
     return best + ENVELOPE_SEARCH_ALLOWANCE
+
+
+#: Grid of the envelope's search over the contact tilt: tilt values from 0 to the largest
+#: and azimuths around the circle, then two finer grids around the farthest point.
+TILT_GRID = (5, 36)
+
+
+def _farthest_rest(solution: FallSolution, obj: ZoneObject, settings: ZoneSettings) -> np.ndarray:
+    """Farthest rest distance [m] of each landing over the contact tilt and the ground's ranges.
+
+    The restitutions are taken at both ends of their ranges (the tilted contact need not be
+    monotone in them) with the lower friction and rolling resistance; the tilt (0 to its
+    largest) and its azimuth are searched on a grid refined twice around the farthest point
+    of each landing.
+    """
+    ground, unc = settings.ground, settings.uncertainty
+    n = solution.time.size
+    corners = [
+        (e_n, e_t) for e_n in ground.normal_restitution for e_t in ground.tangential_restitution
+    ]
+    tilt_max = unc.contact_tilt
+    points_tilt, points_azimuth = TILT_GRID
+    best = np.zeros(n)
+    for e_n, e_t in corners:
+        tilt_lo, tilt_hi = np.zeros(n), np.full(n, tilt_max)
+        az_lo, az_hi = np.zeros(n), np.full(n, 360.0 * (1 - 1 / points_azimuth))
+        for _ in range(3):
+            tilts = tilt_lo[:, None] + (tilt_hi - tilt_lo)[:, None] * np.linspace(0, 1, points_tilt)
+            azimuths = az_lo[:, None] + (az_hi - az_lo)[:, None] * np.linspace(0, 1, points_azimuth)
+            grid_t = np.repeat(tilts, points_azimuth, axis=1)  # (n, T*A)
+            grid_a = np.tile(azimuths, (1, points_tilt))
+            g = grid_t.shape[1]
+            lanes = np.repeat(np.arange(n), g)
+            sub = FallSolution(
+                solution.time[lanes], solution.position[:, lanes], solution.velocity[:, lanes],
+                solution.landed[lanes], solution.steps[lanes],
+            )  # fmt: skip
+            rest, _, _ = _rest_after_landing(
+                sub, np.full(n * g, e_n), np.full(n * g, e_t), np.full(n * g, ground.friction[0]),
+                np.full(n * g, ground.rolling_resistance[0]), grid_t.ravel(), grid_a.ravel(),
+                obj, settings,
+            )  # fmt: skip
+            distance = np.hypot(rest[0], rest[1]).reshape(n, g)
+            pick = np.argmax(distance, axis=1)
+            best = np.maximum(best, distance[np.arange(n), pick])
+            tilt_step = (tilt_hi - tilt_lo) / (points_tilt - 1)
+            az_step = (az_hi - az_lo) / (points_azimuth - 1)
+            t_best = grid_t[np.arange(n), pick]
+            a_best = grid_a[np.arange(n), pick]
+            tilt_lo = np.maximum(t_best - tilt_step, 0.0)
+            tilt_hi = np.minimum(t_best + tilt_step, tilt_max)
+            az_lo, az_hi = a_best - az_step, a_best + az_step
+    return best
 
 
 # --------------------------------------------------------------------------------------------

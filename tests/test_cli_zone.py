@@ -11,10 +11,12 @@ signature (PNG specification, ISO/IEC 15948:2004, sec. 5.2) and the GeoJSON Feat
 from __future__ import annotations
 
 import json
+import math
 import re
 from pathlib import Path
 from typing import Any
 
+import numpy as np
 import pytest
 from typer.testing import CliRunner
 
@@ -37,6 +39,7 @@ BRICK = ("--object", "brick-uk-standard")
 SPANNER = ("--object", "combination-spanner-19mm")
 # 10 kg with a drag area of 1e-7 m^2: k = rho Cd A / (2 m) ~ 6e-9 1/m, vacuum kinematics.
 DENSE = ("--mass", "10 kg", "--drag-area", "1e-7 m2")
+G = 9.80665  # standard gravity [m/s^2], 3rd CGPM (1901)
 
 SITE = """\
 origin = { lat = 51.5, lon = -0.14 }
@@ -108,10 +111,10 @@ def test_json_is_one_object_with_the_contract_fields(args: tuple[str, ...]) -> N
     assert data["confidence"] == 0.99
 
 
-def test_dense_drop_in_still_air_needs_only_the_margin() -> None:
+def test_dense_drop_in_still_air_with_a_flat_bounce_needs_only_the_margin() -> None:
     # Vacuum kinematics: released at rest with no wind, it lands straight below with no
-    # horizontal speed; nothing slides or hops outward.
-    data = zone_json("--height", "20 m", *DENSE, "--margin", "2 m")
+    # horizontal speed; with a flat (untilted) contact nothing slides or hops outward.
+    data = zone_json("--height", "20 m", *DENSE, "--margin", "2 m", "--contact-tilt", "0")
     assert data["drift_m"] == pytest.approx(0.0, abs=1e-6)
     assert data["scatter_m"] == pytest.approx(0.0, abs=1e-6)
     assert data["radius_m"] == pytest.approx(2.0, abs=1e-6)
@@ -119,9 +122,30 @@ def test_dense_drop_in_still_air_needs_only_the_margin() -> None:
     assert data["worst_case_radius_m"] == pytest.approx(2.0 + ENVELOPE_SEARCH_ALLOWANCE, abs=1e-6)
 
 
+def test_dense_drop_in_still_air_bounces_sideways_within_the_tilted_bounce_bounds() -> None:
+    # Straight down at v = sqrt(2 g H) (vacuum; the dense object has negligible drag) onto a
+    # contact tilted by theta: the rebound leaves with u_h = v sin(theta) cos(theta) (e_n + e_t)
+    # and u_z = v (e_n cos^2(theta) - e_t sin^2(theta)) (the velocity ratios of REFERENCES.md
+    # §6 applied about the tilted normal, derived by hand). It can at most hop on for ever,
+    # 2 u_z u_h / (g (1 - e_n e_t)), and then slide at u_h / e_t, (u_h / e_t)^2 / (2 mu g),
+    # with concrete's upper restitutions and lower friction; theta up to 15 deg (the default).
+    data = zone_json("--height", "20 m", *DENSE, "--margin", "0 m")
+    v = math.sqrt(2.0 * G * 20.0)
+    e_n, e_t, mu = 0.55, 0.95, 0.4  # concrete: REFERENCES.md §6 (from memory), friction table
+    bound = 0.0
+    for theta in np.radians(np.linspace(0.0, 15.0, 151)):
+        u_h = v * math.sin(theta) * math.cos(theta) * (e_n + e_t)
+        u_z = v * (e_n * math.cos(theta) ** 2 - e_t * math.sin(theta) ** 2)
+        hops = 2.0 * max(u_z, 0.0) * u_h / (G * (1.0 - e_n * e_t))
+        bound = max(bound, hops + (u_h / e_t) ** 2 / (2.0 * mu * G))
+    assert data["drift_m"] == pytest.approx(0.0, abs=1e-6)
+    assert 1.0 < data["scatter_m"] <= data["worst_case_radius_m"] <= bound + 1e-3
+    assert data["worst_case_radius_m"] > 0.5 * bound  # the envelope reaches near the tilt's end
+
+
 def test_margin_accepts_units() -> None:
     # 1 ft = 0.3048 m exactly (International Yard and Pound Agreement, 1959).
-    data = zone_json("--height", "20 m", *DENSE, "--margin", "10 ft")
+    data = zone_json("--height", "20 m", *DENSE, "--margin", "10 ft", "--contact-tilt", "0")
     assert data["margin_m"] == pytest.approx(3.048, abs=1e-9)
     assert data["radius_m"] == pytest.approx(3.048, abs=1e-6)
 
@@ -143,16 +167,16 @@ def test_same_seed_same_answer_and_the_seed_is_reported() -> None:
 
 def test_barricade_adds_its_fields_and_they_hold_when_rerun() -> None:
     base = ("--height", "12 m", *SPANNER)
-    data = zone_json(*base, "--barricade", "15 m")
-    assert data["barricade_m"] == pytest.approx(15.0)
+    data = zone_json(*base, "--barricade", "25 m")
+    assert data["barricade_m"] == pytest.approx(25.0)
     wind = data["barricade_highest_wind_m_s"]
     height = data["barricade_greatest_height_m"]
     assert wind > 0
     assert height > 0
     # The zone in the reported wind stays within the barricade (the mean wind is the one
     # reported), and so does the zone at the reported height in the day's wind.
-    assert zone_json(*base, "--wind", f"{wind!r} m/s")["radius_m"] <= 15.0
-    assert zone_json("--height", f"{height!r} m", *SPANNER)["radius_m"] <= 15.0
+    assert zone_json(*base, "--wind", f"{wind!r} m/s")["radius_m"] <= 25.0
+    assert zone_json("--height", f"{height!r} m", *SPANNER)["radius_m"] <= 25.0
 
 
 # --- Human output ----------------------------------------------------------------------------

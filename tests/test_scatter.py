@@ -20,6 +20,7 @@ from dropcalc.physics.scatter import (
     FRAGMENT_SPEED_FRACTION,
     STOP_SPEED,
     SURFACES,
+    first_rebound,
     fragment_allowance,
     hop_distance,
     sample_rolling_resistance,
@@ -458,3 +459,75 @@ def test_fragment_fraction_too_large_for_a_float_is_refused_by_name() -> None:
     # Found by the property tests: an integer of 10^400 raised OverflowError when formatted.
     with pytest.raises(InputError, match="speed_fraction"):
         fragment_allowance(0.0, speed_fraction=10**400)
+
+
+# --- First contact on a tilted effective normal -----------------------------------------------
+
+
+def test_untilted_first_rebound_is_the_flat_contact() -> None:
+    # No tilt: the flat-ground equivalent is the impact itself, going straight on.
+    rebound = first_rebound([12.0, 3.0], [0.0, 4.0], 0.0, [0.0, 123.0], 0.5, 0.9)
+    np.testing.assert_allclose(rebound.vertical_speed, [12.0, 3.0], rtol=1e-15)
+    np.testing.assert_allclose(rebound.horizontal_speed, [0.0, 4.0], rtol=1e-15)
+    np.testing.assert_allclose(rebound.turn, 0.0, atol=1e-15)
+
+
+@pytest.mark.parametrize("tilt", [5.0, 15.0, 30.0])
+def test_elastic_rebound_off_a_tilted_plane_obeys_the_law_of_reflection(tilt: float) -> None:
+    # e_n = e_t -> 1: a vertical impact on a plane tilted by theta leaves 2 theta from the
+    # vertical with its speed (angle of incidence = angle of reflection; Halliday, Resnick and
+    # Walker, Fundamentals of Physics, ch. 33, from memory).
+    e = 1.0 - 1e-12
+    v = 10.0
+    rebound = first_rebound(v, 0.0, tilt, 0.0, e, e)
+    two_theta = math.radians(2.0 * tilt)
+    assert float(rebound.vertical_speed) == pytest.approx(v * math.cos(two_theta), rel=1e-9)
+    assert float(rebound.horizontal_speed) == pytest.approx(v * math.sin(two_theta), rel=1e-9)
+
+
+def test_vertical_impact_on_a_tilted_contact_matches_the_hand_derivation() -> None:
+    # v = (0, 0, -V), n = (sin t, 0, cos t): v.n = -V cos t; the normal part V cos t n is
+    # reversed and scaled by e_n, the tangential part V sin t (cos t, 0, -sin t)... scaled by
+    # e_t. Horizontal: V sin t cos t (e_n + e_t); vertical: V (e_n cos^2 t - e_t sin^2 t).
+    v, t, e_n, e_t = 18.0, math.radians(12.0), 0.5, 0.9
+    rebound = first_rebound(v, 0.0, 12.0, 0.0, e_n, e_t)
+    u_h = v * math.sin(t) * math.cos(t) * (e_n + e_t)
+    u_z = v * (e_n * math.cos(t) ** 2 - e_t * math.sin(t) ** 2)
+    assert float(rebound.horizontal_speed) * e_t == pytest.approx(u_h, rel=1e-12)
+    assert float(rebound.vertical_speed) * e_n == pytest.approx(u_z, rel=1e-12)
+
+
+def test_the_rebound_turns_towards_the_tilt_and_never_gains_energy() -> None:
+    rng = np.random.default_rng(3)
+    n = 2000
+    v_n, v_h = rng.uniform(0, 30, n), rng.uniform(0, 15, n)
+    tilt, azimuth = rng.uniform(0, 45, n), rng.uniform(-180, 180, n)
+    e_n, e_t = rng.uniform(0.2, 0.55, n), rng.uniform(0.6, 0.95, n)
+    rebound = first_rebound(v_n, v_h, tilt, azimuth, e_n, e_t)
+    # Energy: each velocity component about the normal shrinks (e < 1), so the rebound speed
+    # is at most the impact speed.
+    u_z = rebound.vertical_speed * e_n
+    u_h = rebound.horizontal_speed * e_t
+    assert np.all(u_z**2 + u_h**2 <= (v_n**2 + v_h**2) * (1 + 1e-12))
+    # A vertical impact leaves towards the tilt's azimuth (counter-clockwise from the x axis).
+    straight = first_rebound(10.0, 0.0, 20.0, 90.0, 0.5, 0.9)
+    assert float(straight.turn) == pytest.approx(math.pi / 2, abs=1e-12)
+
+
+@pytest.mark.parametrize(
+    ("field", "kwargs"),
+    [
+        ("tilt", {"tilt": 95.0}),
+        ("tilt", {"tilt": -1.0}),
+        ("tilt_azimuth", {"tilt_azimuth": math.nan}),
+        ("vertical_speed", {"vertical_speed": -1.0}),
+        ("normal_restitution", {"normal_restitution": 1.0}),
+    ],
+)
+def test_first_rebound_names_a_bad_field(field: str, kwargs: dict) -> None:
+    args = {
+        "vertical_speed": 10.0, "horizontal_speed": 1.0, "tilt": 10.0, "tilt_azimuth": 0.0,
+        "normal_restitution": 0.5, "tangential_restitution": 0.9,
+    } | kwargs  # fmt: skip
+    with pytest.raises(InputError, match=field):
+        first_rebound(**args)

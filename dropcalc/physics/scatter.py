@@ -2,7 +2,13 @@
 
 The trajectory engine gives the first ground contact (position, ground-frame velocity). An
 exclusion zone must also cover what happens next. This module models it on flat ground, without
-air drag, in three pieces:
+air drag, in three pieces, after an optional first step:
+
+0. The first contact. A tool or fitting strikes on a corner, an edge or a protrusion, so the
+   contact's effective normal is not vertical: :func:`first_rebound` reflects the impact about
+   a tilted normal (the rockfall roughness-angle idea [4]_) and hands the rebound on as the
+   flat-ground impact that would give it. Without it a straight drop would bounce straight up
+   and never leave the spot below the edge.
 
 1. Hops. Each rebound multiplies the normal (vertical) speed by the normal restitution e_n and
    the horizontal speed by the tangential restitution e_t (the velocity ratios of rockfall
@@ -50,6 +56,8 @@ References
 .. [3] D. Halliday, R. Resnick and J. Walker, "Fundamentals of Physics", 10th ed., Wiley, 2014,
    ch. 4 (projectile range on flat ground), ch. 6 (kinetic friction), ch. 11 (rolling, angular
    momentum); chapter numbers from memory.
+.. [4] T. J. Pfeiffer and T. D. Bowen, "Computer simulation of rockfalls", Bulletin of the
+   Association of Engineering Geologists 26 (1989) 135-146 (from memory).
 """
 
 from __future__ import annotations
@@ -76,6 +84,14 @@ STOP_SPEED = 0.3
 #: Fraction of the impact speed with which fragments of a breaking object are assumed to leave
 #: the impact point [-]. Common practice, no source; an allowance, not a fragmentation model.
 FRAGMENT_SPEED_FRACTION = 0.3
+
+#: Largest tilt of the effective contact normal at the first ground contact [deg]. An
+#: assumption (common practice, no source): a tool, fitting or fragment strikes on a corner,
+#: edge or protrusion, so it leaves the ground in a direction a flat-surface bounce would not
+#: give; the tilt is the rockfall "roughness angle" idea (Pfeiffer and Bowen 1989, from memory)
+#: applied to the object's own irregularity. 15 deg turns a vertical impact into a rebound
+#: leaving about 20-30 deg from vertical on the surfaces here.
+CONTACT_TILT_MAX = 15.0
 
 #: Speed kept by a sphere landing without spin once it rolls without slipping, 1 / (1 + 2/5)
 #: [-]. Derived from angular momentum about the contact point with I = (2/5) m r^2 (solid
@@ -330,6 +346,113 @@ def hop_distance(
         gravity=g,
     )
     return _hops_sum(2.0 * v_n * v_h / g, e_n * e_t, count)
+
+
+@dataclass(frozen=True)
+class Rebound:
+    """The first ground contact on a tilted effective normal, as a flat-ground equivalent.
+
+    Attributes
+    ----------
+    vertical_speed, horizontal_speed : numpy.ndarray
+        Impact speeds (downward, horizontal) a flat contact would need to produce the same
+        first rebound, e_n v_n' = u_z and e_t v_h' = u_h: feed them to
+        :func:`scatter_distance`. [m/s]
+    turn : numpy.ndarray
+        Angle from the horizontal impact direction to the rebound's horizontal direction,
+        counter-clockwise seen from above. [rad]
+    """
+
+    vertical_speed: NDArray[np.float64]
+    horizontal_speed: NDArray[np.float64]
+    turn: NDArray[np.float64]
+
+
+def first_rebound(
+    vertical_speed: ArrayLike,
+    horizontal_speed: ArrayLike,
+    tilt: ArrayLike,
+    tilt_azimuth: ArrayLike,
+    normal_restitution: ArrayLike,
+    tangential_restitution: ArrayLike,
+) -> Rebound:
+    """Rebound from the first ground contact about a tilted effective normal.
+
+    The impact velocity v = (v_h, 0, -v_n) (x along the horizontal impact direction) meets a
+    contact whose normal n is tilted by ``tilt`` from the vertical towards ``tilt_azimuth``
+    (measured from x, counter-clockwise). The normal part of v is reversed and scaled by e_n,
+    the tangential part scaled by e_t (the velocity ratios of rockfall practice, REFERENCES.md
+    §6):
+
+        v' = -e_n (v . n) n + e_t (v - (v . n) n).
+
+    The rebound's vertical part u_z and horizontal speed u_h then go on as hops and a slide on
+    flat ground (:func:`scatter_distance`), given as the flat-contact equivalent
+    (u_z / e_n, u_h / e_t). A rebound that does not rise (u_z <= 0) slides at once. With no
+    tilt this is the flat contact itself; with e_n = e_t = 1 it is the law of reflection.
+
+    Parameters
+    ----------
+    vertical_speed : float or array
+        Downward speed at the first ground contact, v_n. [m/s]
+    horizontal_speed : float or array
+        Horizontal speed at the first ground contact, v_h. [m/s]
+    tilt : float or array
+        Angle of the effective contact normal from the vertical, 0..89 deg. [deg]
+    tilt_azimuth : float or array
+        Direction of the tilt from the horizontal impact direction. [deg]
+    normal_restitution, tangential_restitution : float or array
+        e_n and e_t of the surface, in [0, 1). [-]
+
+    Returns
+    -------
+    Rebound
+        Flat-ground equivalent speeds and the turn of the horizontal direction.
+
+    Raises
+    ------
+    InputError
+        For a negative or non-finite speed, a tilt outside 0..89 deg, a non-finite azimuth, a
+        restitution outside [0, 1) or arrays of different lengths; the message names the field.
+
+    References
+    ----------
+    T. J. Pfeiffer and T. D. Bowen, "Computer simulation of rockfalls", Bulletin of the
+    Association of Engineering Geologists 26 (1989) 135-146 (a random slope angle at each
+    impact for surface roughness; from memory). REFERENCES.md §6 (restitution).
+    """
+    v_n = _check_speed("vertical_speed", vertical_speed)
+    v_h = _check_speed("horizontal_speed", horizontal_speed)
+    theta = _as_samples("tilt", tilt)
+    good = (theta >= 0.0) & (theta <= 89.0)
+    if not np.all(good):
+        raise InputError(f"tilt must be from 0 to 89 deg; got {_first_bad(theta, good):g} deg")
+    psi = _as_samples("tilt_azimuth", tilt_azimuth)
+    if not np.all(np.isfinite(psi)):
+        raise InputError(
+            f"tilt_azimuth must be a finite angle; got {_first_bad(psi, np.isfinite(psi)):g} deg"
+        )
+    e_n = _check_restitution("normal_restitution", normal_restitution)
+    e_t = _check_restitution("tangential_restitution", tangential_restitution)
+    _common_length(
+        vertical_speed=v_n, horizontal_speed=v_h, tilt=theta, tilt_azimuth=psi,
+        normal_restitution=e_n, tangential_restitution=e_t,
+    )  # fmt: skip
+    theta, psi = np.radians(theta), np.radians(psi)
+    n_x = np.sin(theta) * np.cos(psi)
+    n_y = np.sin(theta) * np.sin(psi)
+    n_z = np.cos(theta)
+    approach = v_h * n_x - v_n * n_z  # v . n, negative while approaching
+    out_x = -e_n * approach * n_x + e_t * (v_h - approach * n_x)
+    out_y = -e_n * approach * n_y + e_t * (-approach * n_y)
+    out_z = -e_n * approach * n_z + e_t * (-v_n - approach * n_z)
+    rises = (out_z > 0.0) & (e_n > 0.0)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        vertical = np.where(rises, out_z / np.where(e_n > 0, e_n, 1.0), 0.0)
+        horizontal_out = np.hypot(out_x, out_y)
+        horizontal = np.where(e_t > 0, horizontal_out / np.where(e_t > 0, e_t, 1.0), v_h)
+    turn = np.where(horizontal_out > 0.0, np.arctan2(out_y, out_x), 0.0)
+    return Rebound(vertical, horizontal, turn)
 
 
 def scatter_distance(

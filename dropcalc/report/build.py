@@ -50,7 +50,7 @@ def load_text(name: str, scenario_dir: Path | None = None) -> str:
 
 
 def _zone_settings(scenario: Scenario, area: Any) -> Any:
-    from dropcalc.zone import ZoneSettings
+    from dropcalc.zone import Uncertainty, ZoneSettings
 
     return ZoneSettings(
         height=max(edge.height for edge in area.site.edges),
@@ -63,6 +63,7 @@ def _zone_settings(scenario: Scenario, area: Any) -> Any:
         margin=scenario.margin,
         relative_error=scenario.precision,
         seed=scenario.seed,
+        uncertainty=Uncertainty(contact_tilt=scenario.contact_tilt),
     )
 
 
@@ -242,6 +243,11 @@ def build_results(scenario: Scenario, figure_dir: Path, progress: Any = None) ->
             ("Gust used for the worst case", f"{_gust(scenario):.3g} m/s at 10 m"),
             ("Gravity", f"{scenario.gravity:.5g} m/s²"),
             ("Margin added", f"{scenario.margin:g} m"),
+            (
+                "Bounce off the ground",
+                f"the first contact's normal tilted up to {scenario.contact_tilt:g}° "
+                "(sends a dropped object sideways)",
+            ),
             (
                 "Monte Carlo precision",
                 f"standard error below {100 * scenario.precision:g} % "
