@@ -624,7 +624,8 @@ def zone(
         str,
         typer.Option(
             help="Largest tilt of the contact at the first bounce, which sends a dropped "
-            'object sideways (default 15 deg; "0 deg" is a flat, mirror-like bounce).'
+            'object sideways (default 15 deg, a third for round items that roll; "0 deg" is '
+            "a flat, mirror-like bounce)."
         ),
     ] = "15 deg",
     barricade: Annotated[

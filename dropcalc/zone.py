@@ -34,6 +34,7 @@ from dropcalc.physics.atmosphere import AirState, air_state
 from dropcalc.physics.release import Release, initial_velocity
 from dropcalc.physics.scatter import (
     CONTACT_TILT_MAX,
+    ROUND_TILT_FRACTION,
     Surface,
     first_rebound,
     fragment_allowance,
@@ -138,7 +139,8 @@ class Uncertainty:
         Largest tilt of the effective contact normal at the first ground contact
         (:data:`~dropcalc.physics.scatter.CONTACT_TILT_MAX`, an assumption): the normal points
         anywhere in the cone of this half-angle about the vertical with equal probability
-        (cos of the tilt uniform), in a uniformly random direction. [deg]
+        (cos of the tilt uniform), in a uniformly random direction. Round bodies that roll
+        take :data:`~dropcalc.physics.scatter.ROUND_TILT_FRACTION` of it. [deg]
     """
 
     turbulence_intensity: float | None = None
@@ -435,7 +437,7 @@ def sample_object(
     rolling = sample_rolling_resistance(settings.ground, n, rng) if obj.rolls else None
     velocity0 = _release_velocities(settings, n, rng)
     # Contact normal uniform over the cone of half-angle contact_tilt: cos(tilt) uniform.
-    lowest_cos = math.cos(math.radians(unc.contact_tilt))
+    lowest_cos = math.cos(math.radians(_tilt_max(obj, settings)))
     tilt = np.degrees(np.arccos(np.clip(rng.uniform(lowest_cos, 1.0, n), -1.0, 1.0)))
     tilt_azimuth = rng.uniform(0.0, 360.0, n)
     return _rest_positions(
@@ -550,6 +552,12 @@ def envelope_distance(obj: ZoneObject, settings: ZoneSettings) -> float:
     return best + ENVELOPE_SEARCH_ALLOWANCE
 
 
+def _tilt_max(obj: ZoneObject, settings: ZoneSettings) -> float:
+    """Largest contact tilt of this object [deg]: a fraction of it for round bodies."""
+    tilt = settings.uncertainty.contact_tilt
+    return tilt * ROUND_TILT_FRACTION if obj.rolls else tilt
+
+
 #: Grid of the envelope's search over the contact tilt: tilt values from 0 to the largest
 #: and azimuths around the circle, then two finer grids around the farthest point.
 TILT_GRID = (5, 36)
@@ -563,12 +571,12 @@ def _farthest_rest(solution: FallSolution, obj: ZoneObject, settings: ZoneSettin
     largest) and its azimuth are searched on a grid refined twice around the farthest point
     of each landing.
     """
-    ground, unc = settings.ground, settings.uncertainty
+    ground = settings.ground
     n = solution.time.size
     corners = [
         (e_n, e_t) for e_n in ground.normal_restitution for e_t in ground.tangential_restitution
     ]
-    tilt_max = unc.contact_tilt
+    tilt_max = _tilt_max(obj, settings)
     points_tilt, points_azimuth = TILT_GRID
     best = np.zeros(n)
     for e_n, e_t in corners:

@@ -93,6 +93,13 @@ FRAGMENT_SPEED_FRACTION = 0.3
 #: leaving about 20-30 deg from vertical on the surfaces here.
 CONTACT_TILT_MAX = 15.0
 
+#: Share of :data:`CONTACT_TILT_MAX` that applies to round bodies that roll (tubes, pipes,
+#: balls) [-]. An assumption (no source): a curved surface keeps the contact normal through the
+#: body's axis or centre, so only strikes on an end or rim and the ground's own texture tilt
+#: it. Without it a rolling body kicked sideways by the full tilt rolls out for tens of metres
+#: on hard ground (rolling resistance 0.01-0.04).
+ROUND_TILT_FRACTION = 1.0 / 3.0
+
 #: Speed kept by a sphere landing without spin once it rolls without slipping, 1 / (1 + 2/5)
 #: [-]. Derived from angular momentum about the contact point with I = (2/5) m r^2 (solid
 #: sphere, Halliday, Resnick and Walker, Fundamentals of Physics, Table 10-2, from memory).
