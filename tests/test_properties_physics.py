@@ -27,6 +27,7 @@ entry point                                            examples  deadline
 ``surface_area`` (one call of each per case)                300  2 s
 ``surface``                                                 200  2 s
 ``scatter_distance``                                        300  2 s
+``first_rebound`` (tilted first contact)                    300  2 s
 ``fragment_allowance``                                      300  2 s
 ``FallCase`` + ``solve_fall`` (+ ``to_json``)               200  5 s
 ``ZoneSettings``/``Uncertainty``/``ZoneObject`` +
@@ -36,7 +37,7 @@ entry point                                            examples  deadline
 ``solve_falls`` engine, valid but extreme                   150  20 s
 =====================================================  ========  ============
 
-Total 3,850 cases; the file runs in about 15 s.
+Total 4,150 cases; the file runs in about 15 s.
 
 Documented exceptions to "every number finite" (the docstrings say so):
 
@@ -78,6 +79,7 @@ from dropcalc.physics.impact import impact_from_solution
 from dropcalc.physics.release import RELEASE_MODES, Release, eave_exit_speed, initial_velocity
 from dropcalc.physics.scatter import (
     SURFACES,
+    first_rebound,
     fragment_allowance,
     scatter_distance,
     surface,
@@ -568,6 +570,46 @@ def test_surface_is_a_surface_or_names_the_field(name: Any) -> None:
         _names_a_field(error, ("surface",))
         return
     assert found.key in SURFACES
+
+
+@FAST
+@given(
+    vertical_speed=number(0.0, 400.0),
+    horizontal_speed=number(0.0, 100.0),
+    tilt=number(0.0, 89.0),
+    tilt_azimuth=number(-720.0, 720.0),
+    normal_restitution=number(0.0, 0.99),
+    tangential_restitution=number(0.0, 0.99),
+)
+def test_first_rebound_is_sensible_or_names_the_field(
+    vertical_speed: Any,
+    horizontal_speed: Any,
+    tilt: Any,
+    tilt_azimuth: Any,
+    normal_restitution: Any,
+    tangential_restitution: Any,
+) -> None:
+    result, error = _call(
+        first_rebound, vertical_speed, horizontal_speed, tilt, tilt_azimuth,
+        normal_restitution, tangential_restitution,
+    )  # fmt: skip
+    if error is not None:
+        _names_a_field(error, REBOUND_FIELDS)
+        return
+    _finite(
+        vertical_speed=result.vertical_speed,
+        horizontal_speed=result.horizontal_speed,
+        turn=result.turn,
+    )
+    assert np.all(result.vertical_speed >= 0.0)
+    assert np.all(result.horizontal_speed >= 0.0)
+    assert np.all(np.abs(result.turn) <= math.pi + 1e-12)
+
+
+REBOUND_FIELDS = (
+    "vertical_speed", "horizontal_speed", "tilt", "tilt_azimuth", "normal_restitution",
+    "tangential_restitution",
+)  # fmt: skip
 
 
 @FAST

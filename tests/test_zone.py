@@ -38,6 +38,7 @@ from dropcalc.physics.scatter import FRAGMENT_SPEED_FRACTION, SURFACES, Surface,
 from dropcalc.physics.wind import wind_spec
 from dropcalc.plan import Site, WorkEdge, from_geojson_local, to_geojson
 from dropcalc.zone import (
+    ENVELOPE_SEARCH_ALLOWANCE,
     Uncertainty,
     ZoneObject,
     ZoneSettings,
@@ -337,6 +338,48 @@ def test_scatter_on_concrete_lies_between_the_slide_and_all_hops_plus_the_slide(
     upper = 2.0 * v_n * top / G * r / (1.0 - r) + top**2 / (2.0 * concrete.friction[0] * G)
     assert zone.drift == pytest.approx(top * _vacuum_fall_time(height), rel=1e-4)
     assert lower <= zone.scatter <= upper, (lower, zone.scatter, upper)
+
+
+def _tilted_bound(tilt_max: float, height: float, rolls: bool) -> float:
+    """Longest travel after a straight drop onto concrete with the contact tilted <= tilt_max.
+
+    Vertical impact v = sqrt(2 g H) on a normal tilted by t: u_h = v sin t cos t (e_n + e_t),
+    u_z = v (e_n cos^2 t - e_t sin^2 t) (velocity ratios of REFERENCES.md §6 about the tilted
+    normal, derived by hand); then at most all hops 2 u_z u_h / (g (1 - e_n e_t)) and a slide
+    at u_h / e_t, or for a round body a skid to (5/7) of it and a roll-out (REFERENCES.md §6).
+    Concrete: e_n <= 0.55, e_t <= 0.95 (from memory), mu >= 0.4, c_rr >= 0.01.
+    """
+    e_n, e_t, mu, c_rr = 0.55, 0.95, 0.4, 0.01
+    v = math.sqrt(2.0 * G * height)
+    bound = 0.0
+    for t in np.radians(np.linspace(0.0, tilt_max, 201)):
+        u_h = v * math.sin(t) * math.cos(t) * (e_n + e_t)
+        u_z = v * (e_n * math.cos(t) ** 2 - e_t * math.sin(t) ** 2)
+        hops = 2.0 * max(u_z, 0.0) * u_h / (G * (1.0 - e_n * e_t))
+        w = u_h / e_t
+        rolled = 5.0 / 7.0 * w
+        after = (
+            (w**2 - rolled**2) / (2.0 * mu * G) + rolled**2 / (2.0 * c_rr * G)
+            if rolls
+            else w**2 / (2.0 * mu * G)
+        )
+        bound = max(bound, hops + after)
+    return bound
+
+
+@pytest.mark.parametrize("rolls", [False, True], ids=["slides", "rolls"])
+def test_a_straight_drop_bounces_sideways_within_the_tilted_contact_bound(rolls: bool) -> None:
+    # Round bodies take a third of the 15 deg default (ROUND_TILT_FRACTION, an assumption).
+    height = 20.0
+    settings = ZoneSettings(height=height, margin=0.0)
+    zone = compute_zone([replace(DENSE, rolls=rolls)], settings)
+    tilt = 15.0 / 3.0 if rolls else 15.0
+    bound = _tilted_bound(tilt, height, rolls)
+    assert zone.driver.drift == pytest.approx(0.0, abs=1e-6)
+    assert 0.5 * bound < zone.worst_case <= bound + ENVELOPE_SEARCH_ALLOWANCE
+    assert 0.0 < zone.radius <= zone.worst_case
+    if rolls:  # with the full tilt the roll-out would be several times longer
+        assert _tilted_bound(15.0, height, rolls) > 5.0 * bound
 
 
 def test_fragile_object_gets_the_fragment_allowance() -> None:

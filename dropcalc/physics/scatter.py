@@ -395,8 +395,9 @@ def first_rebound(
 
     The rebound's vertical part u_z and horizontal speed u_h then go on as hops and a slide on
     flat ground (:func:`scatter_distance`), given as the flat-contact equivalent
-    (u_z / e_n, u_h / e_t). A rebound that does not rise (u_z <= 0) slides at once. With no
-    tilt this is the flat contact itself; with e_n = e_t = 1 it is the law of reflection.
+    (u_z / e_n, u_h / e_t), each at most the impact speed. A rebound that does not rise
+    (u_z <= 0) slides at once. With no tilt this is the flat contact itself; with
+    e_n = e_t = 1 it is the law of reflection.
 
     Parameters
     ----------
@@ -453,11 +454,16 @@ def first_rebound(
     out_x = -e_n * approach * n_x + e_t * (v_h - approach * n_x)
     out_y = -e_n * approach * n_y + e_t * (-approach * n_y)
     out_z = -e_n * approach * n_z + e_t * (-v_n - approach * n_z)
+    # The flat-ground equivalents never exceed the impact speed: nothing leaves the contact
+    # faster than it arrived (and a vanishing e_n or e_t cannot blow them up).
+    speed = np.hypot(v_n, v_h)
     rises = (out_z > 0.0) & (e_n > 0.0)
-    with np.errstate(divide="ignore", invalid="ignore"):
-        vertical = np.where(rises, out_z / np.where(e_n > 0, e_n, 1.0), 0.0)
-        horizontal_out = np.hypot(out_x, out_y)
-        horizontal = np.where(e_t > 0, horizontal_out / np.where(e_t > 0, e_t, 1.0), v_h)
+    horizontal_out = np.hypot(out_x, out_y)
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        vertical = np.where(rises, np.minimum(out_z / np.where(rises, e_n, 1.0), speed), 0.0)
+        horizontal = np.where(
+            e_t > 0, np.minimum(horizontal_out / np.where(e_t > 0, e_t, 1.0), speed), v_h
+        )
     turn = np.where(horizontal_out > 0.0, np.arctan2(out_y, out_x), 0.0)
     return Rebound(vertical, horizontal, turn)
 
