@@ -30,6 +30,7 @@ Hairer, E., Norsett, S. P. and Wanner, G., *Solving Ordinary Differential Equati
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
 
 import numpy as np
@@ -206,6 +207,8 @@ def _hermite_root(
         )
         step = np.where(slope < 0.0, value / np.where(slope < 0.0, slope, -1.0), 0.0)
         theta = np.clip(theta - step, 1e-6, 1.0)
+        if np.all(np.abs(step) <= 1e-12):  # converged (Newton: two or three iterations)
+            break
     return theta
 
 
@@ -512,8 +515,6 @@ def _combine(weights: NDArray[np.float64], stages: NDArray[np.float64], out: NDA
             out += tmp
 
 
-_IDENTITY3 = np.eye(3)
-
 #: The implicit method's local tolerance is this much looser than the explicit one's: drag
 #: damps its local errors, and at equal tolerance it was 100x more accurate than needed
 #: (tests/test_trajectory_accuracy.py measures the result).
@@ -555,6 +556,35 @@ def _velocity_jacobian(
     return k_speed, k_over_speed, u, dz
 
 
+def _rank_two_solver(
+    alpha: NDArray[np.float64],
+    beta: NDArray[np.float64],
+    u: NDArray[np.float64],
+    u_squared: NDArray[np.float64],
+    c: NDArray[np.float64],
+) -> Callable[[NDArray[np.float64]], NDArray[np.float64]]:
+    """The solver x -> M^-1 x, M = alpha I + beta u u^T - c e_z^T per lane ((m,), (3, m)).
+
+    A = alpha I + beta u u^T has A^-1 y = (y - gamma u (u . y)) / alpha with
+    gamma = beta / (alpha + beta |u|^2); then M = A - c e_z^T gives
+    M^-1 x = A^-1 x + A^-1 c (e_z . A^-1 x) / (1 - e_z . A^-1 c) (Sherman and Morrison, Ann.
+    Math. Statist. 21 (1950) 124-127; Golub and Van Loan, Matrix Computations, sec. 2.1.4).
+    """
+    gamma = beta / (alpha + beta * u_squared)
+
+    def a_inverse(y: NDArray[np.float64]) -> NDArray[np.float64]:
+        return (y - gamma * u * np.sum(u * y, axis=0)) / alpha
+
+    a_inverse_c = a_inverse(c)
+    scale = a_inverse_c / (1.0 - a_inverse_c[2])
+
+    def solve(x: NDArray[np.float64]) -> NDArray[np.float64]:
+        y = a_inverse(x)
+        return y + scale * y[2]
+
+    return solve
+
+
 def _implicit_step(
     state: NDArray[np.float64],
     slope0: NDArray[np.float64],
@@ -576,17 +606,14 @@ def _implicit_step(
     (I - s a_v - s^2 a_z e_z^T) dv = s a + s^2 a_z v_z, a 3x3 system per trajectory.
     """
     k_speed, k_over_speed, u, dz = _velocity_jacobian(state, params, model)
-    outer = np.einsum("im,jm->mij", u, u)
-    dz_t = dz.T
+    u_squared = np.sum(u * u, axis=0)
     table: list[NDArray[np.float64]] = []
     for j, n in enumerate(_EXTRAPOLATION_SEQUENCE):
         s = h / n
         s2 = s * s
-        # M = (1 + s k|u|) I + s (k/|u|) u u^T - s^2 dz e_z^T, one 3x3 matrix per lane.
-        matrix = (s * k_over_speed)[:, None, None] * outer
-        matrix += (1.0 + s * k_speed)[:, None, None] * _IDENTITY3
-        matrix[:, :, 2] -= s2[:, None] * dz_t
-        inverse = np.linalg.inv(matrix)
+        # M = alpha I + beta u u^T - c e_z^T (one 3x3 matrix per lane), alpha = 1 + s k|u|,
+        # beta = s k/|u|, c = s^2 dz: solved by two Sherman-Morrison updates, not inverted.
+        solve = _rank_two_solver(1.0 + s * k_speed, s * k_over_speed, u, u_squared, s2 * dz)
         y = state.copy()
         f = slope0
         for i in range(n):
@@ -594,7 +621,7 @@ def _implicit_step(
                 f = np.empty_like(y)
                 _rhs(y, params, model, f)
             rhs = s * f[3:6] + (s2 * y[5]) * dz
-            dv = np.einsum("mij,jm->im", inverse, rhs)
+            dv = solve(rhs)
             y[3:6] += dv
             y[0:3] += s * y[3:6]
         row = [y]
