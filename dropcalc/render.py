@@ -324,6 +324,7 @@ def zone_json(result: object, limits: tuple[float, float, float] | None = None) 
         "gust_speed_10m_m_s": r.gust_speed,
         "turbulence_intensity": r.turbulence_intensity,
         "ground": s.ground.key,
+        "contact_tilt_deg": s.uncertainty.contact_tilt,
         "air_density_kg_m3": s.air.density,
         "seed": s.seed,
         "objects": [
@@ -429,7 +430,8 @@ def render_zone(
         ("Wind", f"{_fmt(s.wind.speed_10m, 'speed', system)} {s.wind.kind} at 10 m; gust "
                  f"{_fmt(r.gust_speed, 'speed', system)}, turbulence intensity "
                  f"{r.turbulence_intensity:.2f}"),
-        ("Ground", s.ground.label),
+        ("Ground", f"{s.ground.label}; first bounce off a contact tilted up to "
+                   f"{s.uncertainty.contact_tilt:g}° (a third for round items)"),
     ]  # fmt: skip
     if limits is not None:
         distance, wind, height = limits

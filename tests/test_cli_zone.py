@@ -138,6 +138,7 @@ def test_dense_drop_in_still_air_bounces_sideways_within_the_tilted_bounce_bound
         u_z = v * (e_n * math.cos(theta) ** 2 - e_t * math.sin(theta) ** 2)
         hops = 2.0 * max(u_z, 0.0) * u_h / (G * (1.0 - e_n * e_t))
         bound = max(bound, hops + (u_h / e_t) ** 2 / (2.0 * mu * G))
+    assert data["contact_tilt_deg"] == 15.0
     assert data["drift_m"] == pytest.approx(0.0, abs=1e-6)
     assert 1.0 < data["scatter_m"] <= data["worst_case_radius_m"] <= bound + 1e-3
     assert data["worst_case_radius_m"] > 0.5 * bound  # the envelope reaches near the tilt's end
