@@ -13,7 +13,7 @@ from typing import Annotated, Any
 import typer
 from typer.core import TyperGroup
 
-from dropcalc.errors import DropcalcError, InputError, require_suffix, shorten
+from dropcalc.errors import DropcalcError, InputError, one_line, require_suffix, shorten
 
 
 class _OneLineErrors(TyperGroup):
@@ -137,8 +137,8 @@ _OPTION_OF_FIELD = {
 
 def _fail(message: str) -> None:
     """Print one error line to stderr, naming the option where the model named a field."""
-    # A value the user typed may hold a line break; show it escaped, keeping one line.
-    message = message.replace("\r", "\\r").replace("\n", "\\n")
+    # A value the user typed may hold a line break or be huge: keep one readable line.
+    message = one_line(message)
     first = message.split(" ", 1)[0].rstrip(":")
     option = _OPTION_OF_FIELD.get(first)
     if option is not None:
@@ -570,7 +570,7 @@ def batch(
         _fail(str(exc))
         return
     for error in run.errors:
-        typer.echo(f"dropcalc: {file.name}: row {error.row}: {error.message}", err=True)
+        typer.echo(one_line(f"dropcalc: {file.name}: row {error.row}: {error.message}"), err=True)
     if run.bad > len(run.errors):
         typer.echo(
             f"dropcalc: {file.name}: {run.bad - len(run.errors)} more failed rows "

@@ -133,3 +133,17 @@ def require_suffix(path: object, allowed: tuple[str, ...], field: str) -> str:
         listed = ", ".join(allowed[:-1]) + " or " + allowed[-1] if len(allowed) > 1 else allowed[0]
         raise InputError(f"{field} must end in {listed}; got {shorten(name, 80)}")
     return suffix
+
+
+#: Longest error message printed [characters]: a message quoting a pasted-in value (a huge
+#: spreadsheet cell) keeps its start and end and loses its middle.
+MAX_MESSAGE = 400
+
+
+def one_line(message: str) -> str:
+    """A message fit for one terminal line: line breaks escaped, at most MAX_MESSAGE long."""
+    message = message.replace("\r", "\\r").replace("\n", "\\n")
+    if len(message) <= MAX_MESSAGE:
+        return message
+    keep = (MAX_MESSAGE - 5) // 2
+    return f"{message[:keep]} ... {message[-keep:]}"

@@ -29,7 +29,7 @@ from pathlib import Path
 from types import MappingProxyType
 from typing import Any
 
-from dropcalc.errors import InputError, UnknownObjectError, require_file
+from dropcalc.errors import InputError, UnknownObjectError, require_file, shorten
 from dropcalc.physics import shapes
 from dropcalc.resources import data_path
 from dropcalc.units import parse_quantity
@@ -385,7 +385,7 @@ class Library:
             return self.objects[key]
         except KeyError:
             raise UnknownObjectError(
-                f'unknown object "{object_id}"; {_suggest(key, list(self.objects))}'
+                f'unknown object "{shorten(object_id, 60)}"; {_suggest(key, list(self.objects))}'
             ) from None
 
     def categories(self) -> tuple[str, ...]:

@@ -709,3 +709,20 @@ def test_ten_thousand_rows_in_under_5_seconds(tmp_path):
     assert len(rows) == 10_000
     assert all(r["impact_energy_max_j"] is not None for r in rows)
     assert elapsed < 5.0, f"10,000 rows took {elapsed:.2f} s"
+
+
+def test_a_huge_cell_is_named_but_not_quoted_whole(tmp_path):
+    # A 5,000-character cell pasted by mistake: each error still fits on one readable line.
+    path = tmp_path / "items.csv"
+    huge = "x" * 5000
+    path.write_text(
+        f"id,label,mass,drag_area,shape\n{huge},a,,,\n,b,1 kg,,{huge}\n,c,{'9' * 5000} kg,0.01,\n",
+        encoding="utf-8",
+    )
+    result = invoke("batch", str(path), "--height", "10 m", "--json")
+    assert result.exit_code == 1, result.output
+    lines = [line for line in result.stderr.splitlines() if line.strip()]
+    assert len(lines) == 3, result.stderr
+    for number, line in zip((2, 3, 4), lines, strict=True):
+        assert f"row {number}:" in line
+        assert len(line) <= 450, len(line)

@@ -38,7 +38,7 @@ from types import MappingProxyType
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
-from dropcalc.errors import InputError, UnknownObjectError
+from dropcalc.errors import InputError, UnknownObjectError, shorten
 from dropcalc.physics.constants import (
     GLIDE_THICKNESS_RATIO,
     IRREGULAR_COMPACTNESS_FACTOR,
@@ -235,7 +235,8 @@ def normalise_shape(name: str) -> str:
         return SHAPE_ALIASES[key]
     aliases = ", ".join(f"{alias} ({target})" for alias, target in SHAPE_ALIASES.items())
     raise UnknownObjectError(
-        f"shape must be one of {', '.join(SHAPES)} or an alias {aliases}; got {name!r}"
+        f"shape must be one of {', '.join(SHAPES)} or an alias {aliases}; "
+        f"got {shorten(repr(name), 60)}"
     )
 
 
