@@ -619,6 +619,8 @@ def compute_zone(
     objects: Sequence[ZoneObject],
     settings: ZoneSettings,
     progress: Callable[[int, int], None] | None = None,
+    *,
+    envelope: bool = True,
 ) -> ZoneResult:
     """Exclusion zone for the objects: per-object quantiles, envelope, and the driving object.
 
@@ -636,6 +638,10 @@ def compute_zone(
         Release, wind, air, ground, confidence, margin and sampling.
     progress : callable, optional
         Called with (samples done, samples planned) after each round.
+    envelope : bool
+        Compute the deterministic envelope (``worst_case``); without it ``worst_case`` is NaN.
+        The inverse questions (:func:`highest_wind`, :func:`greatest_height`) need only the
+        radius.
 
     Returns
     -------
@@ -685,7 +691,7 @@ def compute_zone(
         q_rest, se_rest = quantile_with_error(distance, p)
         q_drift, _ = quantile_with_error(np.concatenate(drifts[i]), p)
         carried = float(np.mean(np.isnan(distance)))
-        envelope = envelope_distance(obj, settings)
+        worst = envelope_distance(obj, settings) if envelope else math.nan
         finite = distance[np.isfinite(distance)]
         zones.append(
             ObjectZone(
@@ -700,15 +706,15 @@ def compute_zone(
                 standard_error=se_rest,
                 samples=int(distance.size),
                 max_sampled=float(finite.max()) if finite.size else math.inf,
-                worst_case=envelope + settings.margin,
+                worst_case=worst + settings.margin,
                 carried_away=carried,
                 offsets=rest,
             )
         )
     driver = max(zones, key=lambda z: z.radius)
-    worst = max(zones, key=lambda z: z.worst_case)
+    worst_zone = driver if not envelope else max(zones, key=lambda z: z.worst_case)
     mean, gust = _mean_and_gust(settings)
-    return ZoneResult(settings, tuple(zones), driver, worst, gust, _turbulence(settings))
+    return ZoneResult(settings, tuple(zones), driver, worst_zone, gust, _turbulence(settings))
 
 
 def highest_wind(
@@ -729,7 +735,7 @@ def highest_wind(
     def radius_at(speed: float) -> float:
         wind = replace(settings.wind, speed_10m=speed, kind="mean")
         return compute_zone(
-            objects, replace(settings, wind=wind, max_samples=INITIAL_SAMPLES)
+            objects, replace(settings, wind=wind, max_samples=INITIAL_SAMPLES), envelope=False
         ).radius
 
     if radius_at(low) > distance:
@@ -763,7 +769,9 @@ def greatest_height(
 
     def radius_at(height: float) -> float:
         return compute_zone(
-            objects, replace(settings, height=height, max_samples=INITIAL_SAMPLES)
+            objects,
+            replace(settings, height=height, max_samples=INITIAL_SAMPLES),
+            envelope=False,
         ).radius
 
     if radius_at(low) > distance:

@@ -576,3 +576,14 @@ def test_bad_settings_are_refused_naming_the_field(field: str, value: float) -> 
     arguments = {"height": 10.0, field: value}
     with pytest.raises(InputError, match=field):
         ZoneSettings(**arguments)
+
+
+def test_the_radius_does_not_depend_on_computing_the_envelope() -> None:
+    # The inverse questions skip the envelope; the Monte Carlo radius must be the same.
+    objects = [_library_object("combination-spanner-19mm"), DENSE]
+    settings = ZoneSettings(height=10.0, wind=wind_spec(5.0))
+    with_envelope = compute_zone(objects, settings)
+    without = compute_zone(objects, settings, envelope=False)
+    assert without.radius == with_envelope.radius
+    assert math.isnan(without.worst_case)
+    assert math.isfinite(with_envelope.worst_case)
