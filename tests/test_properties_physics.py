@@ -1188,3 +1188,11 @@ def test_regression_an_integer_beyond_int64_is_read_as_a_float_angle() -> None:
     assert isinstance(case.edge_azimuth, float)
     result = solve_fall(case)
     assert math.isfinite(result.to_json()["impact_speed_m_s"])
+
+
+def test_regression_a_subnormal_stop_speed_counts_finitely_many_hops() -> None:
+    # Found by exploring: stop / v_n underflowed to 0 and log(0) made the hop count infinite,
+    # though only stop_speed = 0 means unending hops. e_n^K v_n >= s gives
+    # K = floor(ln(s / v_n) / ln e_n) = floor((ln 5e-324 - ln 2) / ln 0.5) = 1075.
+    out = scatter_distance(2.0, 0.0, 0.5, 0.0, 1.0, stop_speed=5e-324)
+    assert float(out.hops) == math.floor((math.log(5e-324) - math.log(2.0)) / math.log(0.5))

@@ -809,7 +809,8 @@ def _rebound_count(v_n: NDArray, e_n: NDArray, stop: NDArray) -> NDArray[np.floa
     bounces = (e_n > 0) & (v_n > 0)
     with np.errstate(divide="ignore", invalid="ignore"):
         # e_n^k v_n >= s  <=>  k <= ln(s / v_n) / ln(e_n)  (ln e_n < 0).
-        limit = np.log(stop / v_n) / np.log(e_n)
+        # (logs taken apart: stop / v_n of a subnormal stop speed would underflow to 0)
+        limit = (np.log(stop) - np.log(v_n)) / np.log(e_n)
         # A relative 1e-9 keeps the boundary case e_n^k v_n = s (in exact arithmetic) counted.
         count = np.floor(limit * (1.0 + 1e-9) + 1e-9)
     count = np.where(bounces & (stop == 0), np.inf, count)
