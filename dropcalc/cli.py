@@ -882,10 +882,13 @@ def _write_pdf(results: Any, output: Path) -> int:
 
 
 def _report_lines(summary: dict[str, Any]) -> str:
-    from dropcalc.texts import CAUTION_SHORT, keep_clear
+    from dropcalc.texts import CAUTION_SHORT, NO_FINITE_DISTANCE, keep_clear
 
     lines = [f"Report written: {summary['pdf']} ({summary['pages']} pages)"]
     for area in summary["work_areas"]:
+        if not math.isfinite(area["radius_m"]):
+            lines.append(f"  {area['name']}: {NO_FINITE_DISTANCE}")
+            continue
         lines.append(
             f"  {area['name']}: keep {keep_clear(area['radius_m'])} m clear "
             f"({100 * summary['confidence']:g} % of simulated drops, margin included); "

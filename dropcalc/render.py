@@ -363,6 +363,13 @@ def zone_statement(result: object, system: str = "si") -> str:
     s = r.settings
     pct = f"{100 * s.confidence:g} %"
     rest = d.radius - s.margin
+    if not math.isfinite(d.radius):
+        return (
+            f"No distance can be given: more than {100 - 100 * s.confidence:g} % of simulated "
+            f"drops of the {d.obj.name} were carried beyond "
+            f"{CARRIED_AWAY_DISTANCE / 1000:g} km by the wind. Secure it against the wind or "
+            "stop the work; a zone cannot protect against it."
+        )
     text = (
         f"{pct} of simulated drops of the {d.obj.name} came to rest within "
         f"{_fmt(rest, 'length', system)} of the release point at the edge, plus a "
@@ -412,7 +419,7 @@ def render_zone(
                 "point-mass zone is not conservative for it.", 90))  # fmt: skip
         if z.carried_away > 0:
             lines.extend(textwrap.wrap(
-                f"WARNING: {100 * z.carried_away:.2g} % of drops of {z.obj.name} were "
+                f"WARNING: {100 * z.carried_away:.3g} % of drops of {z.obj.name} were "
                 f"carried beyond {CARRIED_AWAY_DISTANCE / 1000:g} km by the wind: it is "
                 "windborne and no zone can bound it.",
                 90))  # fmt: skip

@@ -24,3 +24,7 @@ def keep_clear(value: float) -> str:
     if value is None or not math.isfinite(value):
         return "—"
     return f"{math.ceil(value * 10 - 1e-9) / 10:.1f}"
+
+
+#: Said instead of a distance when samples were carried away by the wind.
+NO_FINITE_DISTANCE = "no finite distance: objects are carried away by the wind"

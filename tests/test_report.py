@@ -497,3 +497,41 @@ def test_demo_writes_every_file(tmp_path: Path) -> None:
     with (out / "objects.csv").open(encoding="utf-8", newline="") as handle:
         rows = list(csv.DictReader(handle))
     assert len(rows) == summary["objects"] == len(results["objects"])
+
+
+WINDBORNE = """\
+[job]
+title = "Windborne"
+
+[wind]
+speed = "30 m/s"
+
+[policy]
+precision = 0.2
+
+[[work_area]]
+  [[work_area.edge]]
+  points = [[0, 0], [10, 0]]
+  height = "30 m"
+
+[[object]]
+label = "foil offcut"
+mass = "1 g"
+drag_area = "0.1 m2"
+"""
+
+
+def test_a_zone_no_distance_can_bound_is_reported_as_such(tmp_path: Path) -> None:
+    # Found by exploring (an edge 17.5 furlongs high): an infinite radius crashed the code-rule
+    # table (math.ceil of inf). A 1 g, 0.1 m2 offcut in 30 m/s has a terminal speed of
+    # sqrt(2 m g / (rho Cd A)) = 0.4 m/s: it is carried away, so no distance can be given.
+    scenario = tmp_path / "scenario.toml"
+    scenario.write_text(WINDBORNE, encoding="utf-8")
+    pdf = tmp_path / "out.pdf"
+    result = invoke("report", str(scenario), "-o", str(pdf))
+    assert result.exit_code == 0, result.output
+    assert "no finite distance" in result.stdout
+    text = " ".join(page_texts(pdf))
+    assert "No finite distance" in text
+    assert "no finite computed zone" in text
+    assert "Keep — m clear" not in text

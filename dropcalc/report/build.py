@@ -18,6 +18,7 @@ import numpy as np
 from dropcalc import __version__
 from dropcalc.report.data import JobInfo, ReportData, WorkAreaResult
 from dropcalc.scenario import Scenario
+from dropcalc.texts import keep_clear
 
 #: How many objects the figures show at most (the highest-energy and the zone-driving ones).
 FIGURE_OBJECTS = 5
@@ -71,12 +72,16 @@ def _code_rules(areas: list[WorkAreaResult]) -> list[tuple[str, str, str]]:
     rules = []
     for area in areas:
         h = max(area.heights_m)
+        computed = (
+            f"computed zone {keep_clear(area.radius_m)} m"
+            if math.isfinite(area.radius_m)
+            else "no finite computed zone: objects carried away"
+        )
         rules.append(
             (
                 f"{area.name}: pedestrian protection not needed beyond H/2; barrier H/4 to H/2; "
                 "covered walkway inside H/4",
-                f"H = {h:.3g} m: H/2 = {h / 2:.3g} m, H/4 = {h / 4:.3g} m "
-                f"(computed zone {math.ceil(area.radius_m * 10 - 1e-9) / 10:.1f} m)",
+                f"H = {h:.3g} m: H/2 = {h / 2:.3g} m, H/4 = {h / 4:.3g} m ({computed})",
                 "International Building Code, Table 3306.1",
             )
         )

@@ -463,11 +463,20 @@ def _work_area_box(
         )
     )
     headline: list[Flowable] = [
-        Paragraph(f"Keep {keep_clear(area.radius_m)} m clear", styles["distance"]),
+        Paragraph(
+            f"Keep {keep_clear(area.radius_m)} m clear"
+            if math.isfinite(area.radius_m)
+            else "No finite distance",
+            styles["distance"],
+        ),
         Paragraph(
             f"from the work edge. Contains {_percent(data.confidence)} of simulated drops, "
             f"including a margin of {sig(area.margin_m)}\u00a0m; Monte Carlo standard error "
-            f"{sig(area.standard_error_m, 2)}\u00a0m; rounded up to 0.1 m.",
+            f"{sig(area.standard_error_m, 2)}\u00a0m; rounded up to 0.1 m."
+            if math.isfinite(area.radius_m)
+            else f"More than {_percent(1 - data.confidence)} of simulated drops of "
+            f"{_text(area.driving_object)} were still in the air 1 km downwind: no zone can "
+            "bound them. Secure such objects against the wind or stop the work.",
             styles["note"],
         ),
     ]
