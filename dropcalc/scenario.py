@@ -205,7 +205,7 @@ def load_scenario(path: Path) -> Scenario:
             raise where.error(key_path, f"expected a number; got {value!r}")
         try:
             return convert(value)
-        except (TypeError, ValueError):
+        except (TypeError, ValueError, OverflowError):  # int(inf) overflows
             raise where.error(key_path, f"expected a number; got {value!r}") from None
 
     def model(key_path: str, build: Any, fields: dict[str, str] | None = None) -> Any:
@@ -242,7 +242,11 @@ def load_scenario(path: Path) -> Scenario:
         for arg, (key, kind) in optional.items()
         if key in site_table
     }
-    air = model("site", lambda: air_state(elevation=elevation, **air_args))
+    air = model(
+        "site",
+        lambda: air_state(elevation=elevation, **air_args),
+        {arg: f"site.{key}" for arg, (key, _kind) in optional.items()},
+    )
     latitude = site_table.get("latitude")
     g = model("site.latitude", lambda: local_gravity(latitude, elevation))
     ground = model("site.ground", lambda: surface(site_table.get("ground", "concrete")))
@@ -293,7 +297,11 @@ def load_scenario(path: Path) -> Scenario:
     precision = number(policy.get("precision", 0.01), "policy.precision")
     if not (0.001 <= precision <= 0.2):
         raise where.error("policy.precision", f"must be between 0.001 and 0.2; got {precision}")
-    seed = number(policy.get("seed", 1), "policy.seed", int)
+    raw_seed = policy.get("seed", 1)
+    seed = number(raw_seed, "policy.seed", int)
+    fractional = isinstance(raw_seed, float) and not raw_seed.is_integer()
+    if seed < 0 or fractional:
+        raise where.error("policy.seed", f"must be a whole number >= 0; got {raw_seed!r}")
     contact_tilt = quantity(
         policy.get("contact_tilt", CONTACT_TILT_MAX), "angle", "policy.contact_tilt"
     )

@@ -192,6 +192,25 @@ ERRORS = {
         _replace("precision = 0.2", "precision = 0.5"), "policy.precision", 8, ("0.5",),
         id="precision-out-of-range",
     ),
+    # Found by exploring with random seeds: int(inf) overflowed, a negative or fractional seed
+    # was refused later without the file and line, and an out-of-range air temperature was
+    # named "site" instead of its key.
+    "seed-infinite": pytest.param(
+        _replace("precision = 0.2", "precision = 0.2\nseed = inf"), "policy.seed", 9, ("inf",),
+        id="seed-infinite",
+    ),
+    "seed-negative": pytest.param(
+        _replace("precision = 0.2", "precision = 0.2\nseed = -1"), "policy.seed", 9,
+        ("whole number", "-1"), id="seed-negative",
+    ),
+    "seed-fraction": pytest.param(
+        _replace("precision = 0.2", "precision = 0.2\nseed = 2.5"), "policy.seed", 9,
+        ("whole number", "2.5"), id="seed-fraction",
+    ),
+    "air-temperature-out-of-range": pytest.param(
+        '[site]\nair_temperature = 123\n\n' + BASE, "site.air_temperature", 2,
+        ("temperature", "396.15 K"), id="air-temperature-out-of-range",
+    ),
     "margin-out-of-range": pytest.param(
         _replace("precision = 0.2", 'precision = 0.2\nmargin = "500 m"'), "policy.margin", 9,
         ("500",), id="margin-out-of-range",
