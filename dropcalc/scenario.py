@@ -149,6 +149,7 @@ def load_scenario(path: Path) -> Scenario:
         message names the file, the line and the key path.
     """
     from dropcalc.batch import BatchSettings, parse_items, read_table
+    from dropcalc.fall import MAX_RELEASE_HEIGHT, MIN_RELEASE_HEIGHT
     from dropcalc.library import load_library
     from dropcalc.physics.atmosphere import air_state
     from dropcalc.physics.gravity import gravity as local_gravity
@@ -354,7 +355,7 @@ def load_scenario(path: Path) -> Scenario:
                     f"{key}.rolling", f"expected true or false; got {raw['rolling']!r}"
                 )
             slide["rolling"] = raw["rolling"]
-        fields = {name: f"{key}.{name}" for name in slide}
+        fields = {name: f"{key}.{name}" for name in (*slide, "release_speed", "release_angle")}
         release = model(
             f"{key}.release",
             lambda m=mode, v=release_speed, t=angle, extra=slide: Release(m, v, t, **extra),
@@ -371,6 +372,12 @@ def load_scenario(path: Path) -> Scenario:
                 if needed not in raw_edge:
                     raise where.error(f"{edge_key}.{needed}", "missing")
             height = quantity(raw_edge["height"], "length", f"{edge_key}.height")
+            if not (MIN_RELEASE_HEIGHT <= height <= MAX_RELEASE_HEIGHT):
+                raise where.error(
+                    f"{edge_key}.height",
+                    f"must be from {MIN_RELEASE_HEIGHT:g} to {MAX_RELEASE_HEIGHT:g} m; "
+                    f"got {height:g} m",
+                )
             name = text_of(raw_edge.get("name", f"edge {e}"), f"{edge_key}.name")
             edges.append(
                 model(

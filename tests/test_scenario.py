@@ -211,6 +211,18 @@ ERRORS = {
         '[site]\nair_temperature = 123\n\n' + BASE, "site.air_temperature", 2,
         ("temperature", "396.15 K"), id="air-temperature-out-of-range",
     ),
+    "edge-height-negative": pytest.param(
+        _replace('height = "10 m"', 'height = "-1 m"'), "work_area[1].edge[1].height", 14,
+        ("-1 m", "0.01 to 5000 m"), id="edge-height-negative",
+    ),
+    "edge-height-too-high": pytest.param(
+        _replace('height = "10 m"', 'height = "9000 m"'), "work_area[1].edge[1].height", 14,
+        ("9000 m",), id="edge-height-too-high",
+    ),
+    "release-speed-too-high": pytest.param(
+        _replace('name = "Roof"', 'name = "Roof"\nrelease = "push"\nrelease_speed = "123 m/s"'),
+        "work_area[1].release_speed", 13, ("123 m/s", "40 m/s"), id="release-speed-too-high",
+    ),
     "margin-out-of-range": pytest.param(
         _replace("precision = 0.2", 'precision = 0.2\nmargin = "500 m"'), "policy.margin", 9,
         ("500",), id="margin-out-of-range",
