@@ -27,8 +27,7 @@ class _OneLineErrors(TyperGroup):
         except typer.TyperException as exc:  # usage errors: bad choice, unknown option
             message = exc.format_message().strip()
             if message:  # empty when no arguments were given and the help was shown
-                message = message.replace("\r", "\\r").replace("\n", "\\n")
-                typer.echo(f"dropcalc: error: {message}", err=True)
+                typer.echo(f"dropcalc: error: {one_line(message)}", err=True)
             code = exc.exit_code
         except typer.Exit as exc:
             code = exc.exit_code
@@ -951,10 +950,11 @@ def demo(
 
 
 def _contact_tilt(text: str, field: str) -> float:
-    """The contact tilt in degrees, 0 to 45 (raises InputError naming ``field``)."""
+    """The contact tilt in degrees, in its allowed range (raises InputError naming ``field``)."""
     from dropcalc.errors import require_range
+    from dropcalc.physics.scatter import CONTACT_TILT_RANGE
 
-    return require_range(field, _q(text, "angle", field), 0.0, 45.0, "deg")
+    return require_range(field, _q(text, "angle", field), *CONTACT_TILT_RANGE, "deg")
 
 
 def _refuse_to_overwrite_edits(out: Path, source: Path, names: tuple[str, ...]) -> None:

@@ -154,7 +154,7 @@ def load_scenario(path: Path) -> Scenario:
     from dropcalc.physics.atmosphere import air_state
     from dropcalc.physics.gravity import gravity as local_gravity
     from dropcalc.physics.release import DEFAULT_ROOF_FRICTION, Release
-    from dropcalc.physics.scatter import CONTACT_TILT_MAX, surface
+    from dropcalc.physics.scatter import CONTACT_TILT_MAX, CONTACT_TILT_RANGE, surface
     from dropcalc.physics.wind import wind_spec
     from dropcalc.plan import Site, WorkEdge
     from dropcalc.policy import DEFAULT_RULES, load_policy
@@ -306,9 +306,11 @@ def load_scenario(path: Path) -> Scenario:
     contact_tilt = quantity(
         policy.get("contact_tilt", CONTACT_TILT_MAX), "angle", "policy.contact_tilt"
     )
-    if not (0 <= contact_tilt <= 45):
+    low, high = CONTACT_TILT_RANGE
+    if not (low <= contact_tilt <= high):
         raise where.error(
-            "policy.contact_tilt", f"must be between 0 and 45 deg; got {contact_tilt:g} deg"
+            "policy.contact_tilt",
+            f"must be between {low:g} and {high:g} deg; got {contact_tilt:g} deg",
         )
     level_keys = policy.get("levels", list(DEFAULT_LEVEL_KEYS))
     if not isinstance(level_keys, list):

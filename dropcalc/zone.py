@@ -34,6 +34,7 @@ from dropcalc.physics.atmosphere import AirState, air_state
 from dropcalc.physics.release import Release, initial_velocity
 from dropcalc.physics.scatter import (
     CONTACT_TILT_MAX,
+    CONTACT_TILT_RANGE,
     ROUND_TILT_FRACTION,
     Surface,
     first_rebound,
@@ -162,7 +163,7 @@ class Uncertainty:
             ("friction_spread", self.friction_spread, 0.0, 0.9),
             ("drag_coefficient_spread", self.drag_coefficient_spread, 0.0, 0.5),
             ("density_spread", self.density_spread, 0.0, 0.3),
-            ("contact_tilt", self.contact_tilt, 0.0, 45.0),
+            ("contact_tilt", self.contact_tilt, *CONTACT_TILT_RANGE),
         )
         for name, value, low, high in checks:
             value = to_float(name, value)

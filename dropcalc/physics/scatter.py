@@ -92,6 +92,8 @@ FRAGMENT_SPEED_FRACTION = 0.3
 #: applied to the object's own irregularity. 15 deg turns a vertical impact into a rebound
 #: leaving about 20-30 deg from vertical on the surfaces here.
 CONTACT_TILT_MAX = 15.0
+#: Accepted values of the largest contact tilt [deg].
+CONTACT_TILT_RANGE = (0.0, 45.0)
 
 #: Share of :data:`CONTACT_TILT_MAX` that applies to round bodies that roll (tubes, pipes,
 #: balls) [-]. An assumption (no source): a curved surface keeps the contact normal through the
