@@ -396,8 +396,8 @@ def fall(
 ) -> None:
     """Solve one object falling from one release: impact speed, energy, time and drift."""
     try:
-        from dropcalc.fall import FallCase, solve_fall
-        from dropcalc.render import render_fall
+        from dropcalc.analysis.fall import FallCase, solve_fall
+        from dropcalc.present.text import render_fall
 
         env = _environment(
             wind=wind, wind_kind=wind_kind, wind_from=wind_from, wind_profile=wind_profile,
@@ -415,7 +415,7 @@ def fall(
                     "--object gives the mass and drag; do not combine it with --mass, "
                     "--drag-area or --cd/--area"
                 )
-            from dropcalc.library import load_library
+            from dropcalc.io.library import load_library
 
             obj = load_library(library).get(object_id)
             mass_kg, cda, drag_area_max = obj.mass, obj.drag_area_min, obj.drag_area_max
@@ -512,8 +512,8 @@ def batch(
 ) -> None:
     """Check a list of objects: impact at both drag bounds, levels exceeded, safe heights."""
     try:
-        from dropcalc.batch import BatchSettings
-        from dropcalc.reference_levels import DEFAULT_LEVEL_KEYS, reference_level
+        from dropcalc.analysis.batch import BatchSettings
+        from dropcalc.model.reference_levels import DEFAULT_LEVEL_KEYS, reference_level
 
         env = _environment(
             wind=wind, wind_kind=wind_kind, wind_from=wind_from, wind_profile=wind_profile,
@@ -526,7 +526,7 @@ def batch(
             if levels is None
             else tuple(k.strip() for k in levels.split(",") if k.strip())
         )
-        from dropcalc.policy import DEFAULT_RULES, load_policy
+        from dropcalc.model.policy import DEFAULT_RULES, load_policy
 
         settings = BatchSettings(
             height=_q(height, "length", "--height"),
@@ -540,8 +540,8 @@ def batch(
         )
         if out is not None:
             require_suffix(out, (".csv", ".xlsx", ".json"), "--out")
-        from dropcalc.batch_run import run_batch, stream_json, write_run
-        from dropcalc.library import load_library
+        from dropcalc.analysis.batch_run import run_batch, stream_json, write_run
+        from dropcalc.io.library import load_library
 
         run = run_batch(file, settings, lambda: load_library(library), _progress(as_json))
         try:
@@ -550,7 +550,7 @@ def batch(
             if as_json:
                 stream_json(sys.stdout, run)
             else:
-                from dropcalc.render import render_batch
+                from dropcalc.present.text import render_batch
 
                 top = []
                 for row in run.rows():
@@ -666,14 +666,14 @@ def zone(
 ) -> None:
     """Exclusion distance from the work edge: Monte Carlo at a confidence, and the worst case."""
     try:
-        from dropcalc.physics.scatter import surface
-        from dropcalc.zone import (
+        from dropcalc.analysis.zone import (
             Uncertainty,
             ZoneSettings,
             compute_zone,
             greatest_height,
             highest_wind,
         )
+        from dropcalc.physics.scatter import surface
 
         env = _environment(
             wind=wind, wind_kind=wind_kind, wind_from=wind_from, wind_profile=wind_profile,
@@ -687,14 +687,14 @@ def zone(
             raise InputError("--geojson places the site on the map: give --site with its origin")
         plan = None
         if site is not None:
-            from dropcalc.plan import load_site
+            from dropcalc.analysis.plan import load_site
 
             plan = load_site(site)
             if geojson is not None and plan.origin_lat is None:
                 raise InputError(f"--geojson needs the site's origin (lat, lon) in {site.name}")
         elif plot is not None:
             # No site: draw the zone around a 1 m stretch of edge facing --edge-azimuth.
-            from dropcalc.plan import Site, SitePlan, WorkEdge
+            from dropcalc.analysis.plan import Site, SitePlan, WorkEdge
 
             nx, ny = math.sin(math.radians(edge_azimuth)), math.cos(math.radians(edge_azimuth))
             edge = WorkEdge(
@@ -728,7 +728,7 @@ def zone(
         )
         site_result = None
         if plan is not None:
-            from dropcalc.zone import site_zone
+            from dropcalc.analysis.zone import site_zone
 
             site_result = site_zone(
                 objects, settings, plan.site, _progress(as_json), wind_outward=wind_from is None
@@ -750,7 +750,7 @@ def zone(
     except DropcalcError as exc:
         _fail(str(exc))
         return
-    from dropcalc.render import render_zone, site_json, zone_json
+    from dropcalc.present.text import render_zone, site_json, zone_json
 
     if as_json:
         out = zone_json(result, limits)
@@ -771,8 +771,8 @@ def _write_plan(
 ) -> None:
     """Write the plan drawing and the GeoJSON of a site zone, where asked."""
     if geojson is not None:
-        from dropcalc.output import write_atomic
-        from dropcalc.plan import to_geojson
+        from dropcalc.analysis.plan import to_geojson
+        from dropcalc.io.atomic import write_atomic
 
         data = to_geojson(
             site_result.area, plan.site, plan.origin_lat, plan.origin_lon,
@@ -783,7 +783,7 @@ def _write_plan(
         text = json.dumps(data, indent=1)
         write_atomic(geojson, lambda p: p.write_text(text, encoding="utf-8"))
     if plot is not None:
-        from dropcalc.plan_plot import plot_plan
+        from dropcalc.present.plan_plot import plot_plan
 
         toward = None if outward else (wind.from_direction_deg + 180.0) % 360.0
         label = (
@@ -805,17 +805,17 @@ def _zone_objects(
     height: float,
 ) -> list[Any]:
     """The zone's objects from --object, --items or --mass/--drag-area (raises InputError)."""
-    from dropcalc.zone import ZoneObject, zone_object, zone_objects_from_items
+    from dropcalc.analysis.zone import ZoneObject, zone_object, zone_objects_from_items
 
     objects: list[ZoneObject] = []
     if object_ids or items is not None:
-        from dropcalc.library import load_library
+        from dropcalc.io.library import load_library
 
         lib = load_library(library)
         for object_id in object_ids or []:
             objects.append(zone_object(lib.get(object_id)))
         if items is not None:
-            from dropcalc.batch import BatchSettings, parse_items, read_table
+            from dropcalc.analysis.batch import BatchSettings, parse_items, read_table
 
             frame = read_table(items)
             parsed, errors = parse_items(frame, lib, BatchSettings(height=height))
@@ -830,7 +830,7 @@ def _zone_objects(
         areas = [float(_q(p.strip(), "area", "--drag-area")) for p in parts]
         if len(areas) not in (1, 2) or min(areas) <= 0:
             raise InputError(f"--drag-area: expected one area or a min,max pair; got {drag_area}")
-        from dropcalc.fall import check_object
+        from dropcalc.analysis.fall import check_object
 
         m = float(_q(mass, "mass", "--mass"))
         check_object(m, min(areas), 1.0, None, max(areas))
@@ -854,8 +854,8 @@ def report(
     import tempfile
 
     try:
+        from dropcalc.io.scenario import load_scenario
         from dropcalc.report.build import build_results, summary_json
-        from dropcalc.scenario import load_scenario
 
         if output.suffix.lower() != ".pdf":
             raise InputError(f"-o must name a .pdf file; got {output.name}")
@@ -910,10 +910,10 @@ def demo(
     import shutil
 
     try:
-        from dropcalc.output import write_atomic, write_rows
+        from dropcalc.io.atomic import write_atomic, write_rows
+        from dropcalc.io.scenario import load_scenario
         from dropcalc.report.build import build_results, summary_json
         from dropcalc.resources import data_path
-        from dropcalc.scenario import load_scenario
 
         source = data_path("templates") / "demo"
         _refuse_to_overwrite_edits(out, source, ("scenario.toml", "items.csv"))
@@ -1009,7 +1009,7 @@ def objects(
     if ctx.invoked_subcommand is not None:
         return
     try:
-        from dropcalc.library import load_library
+        from dropcalc.io.library import load_library
 
         lib = load_library(library)
         chosen = list(lib.search(search) if search else lib)
@@ -1022,8 +1022,8 @@ def objects(
             chosen = [o for o in chosen if o.category == category]
         records = [o.to_json() for o in chosen]
         if csv is not None:
-            from dropcalc.library import csv_rows
-            from dropcalc.output import write_rows
+            from dropcalc.io.atomic import write_rows
+            from dropcalc.io.library import csv_rows
 
             require_suffix(csv, (".csv",), "--csv")
             write_rows(csv, csv_rows(chosen))
@@ -1033,7 +1033,7 @@ def objects(
     if as_json:
         typer.echo(json.dumps(records, indent=2, allow_nan=False))
         return
-    from dropcalc.render import render_objects
+    from dropcalc.present.text import render_objects
 
     typer.echo(render_objects(chosen, units.value))
 
@@ -1047,7 +1047,7 @@ def objects_show(
 ) -> None:
     """Show every property of one object with its source."""
     try:
-        from dropcalc.library import load_library
+        from dropcalc.io.library import load_library
 
         obj = load_library(library).get(object_id)
     except DropcalcError as exc:
@@ -1056,7 +1056,7 @@ def objects_show(
     if as_json:
         typer.echo(json.dumps(obj.to_json(), indent=2, allow_nan=False))
         return
-    from dropcalc.render import render_object
+    from dropcalc.present.text import render_object
 
     typer.echo(render_object(obj, units.value))
 

@@ -38,7 +38,7 @@ from typer.testing import CliRunner
 
 from dropcalc.cli import app
 from dropcalc.errors import InputError
-from dropcalc.output import write_atomic, write_rows
+from dropcalc.io.atomic import write_atomic, write_rows
 
 runner = CliRunner()
 

@@ -1,4 +1,4 @@
-"""Tests of the batch check (``dropcalc batch`` and :mod:`dropcalc.batch`).
+"""Tests of the batch check (``dropcalc batch`` and :mod:`dropcalc.analysis.batch`).
 
 Check values come from outside the code under test:
 
@@ -32,7 +32,7 @@ import numpy as np
 import pytest
 from typer.testing import CliRunner
 
-from dropcalc.batch import (
+from dropcalc.analysis.batch import (
     BatchSettings,
     neutralise,
     parse_items,
@@ -42,7 +42,7 @@ from dropcalc.batch import (
     sort_rows,
 )
 from dropcalc.cli import app
-from dropcalc.library import load_library
+from dropcalc.io.library import load_library
 from dropcalc.physics.atmosphere import air_state
 from dropcalc.physics.release import Release
 from dropcalc.physics.wind import wind_spec

@@ -17,7 +17,7 @@ import pytest
 from typer.testing import CliRunner
 
 from dropcalc.cli import app
-from dropcalc.library import load_library
+from dropcalc.io.library import load_library
 
 # Keys every element of `objects --json` carries (the contract).
 OBJECT_FIELDS = (

@@ -20,8 +20,8 @@ import numpy as np
 import pytest
 from typer.testing import CliRunner
 
+from dropcalc.analysis.zone import ENVELOPE_SEARCH_ALLOWANCE
 from dropcalc.cli import app
-from dropcalc.zone import ENVELOPE_SEARCH_ALLOWANCE
 
 # JSON contract fields, DESIGN.md "JSON contract": never renamed.
 CONTRACT_FIELDS = (

@@ -33,8 +33,8 @@ import numpy as np
 import pytest
 from typer.testing import CliRunner
 
+from dropcalc.analysis.fall import CARRIED_AWAY_DISTANCE
 from dropcalc.cli import app
-from dropcalc.fall import CARRIED_AWAY_DISTANCE
 from dropcalc.physics.atmosphere import air_state
 from dropcalc.physics.release import eave_exit_speed
 from dropcalc.physics.trajectory import WindField, solve_falls
@@ -241,7 +241,7 @@ def light_zone() -> tuple[dict[str, Any], str]:
 
 def test_zone_reports_the_carried_away_share(light_zone: tuple[dict[str, Any], str]) -> None:
     """The zone samples the wind as mean (1 + I_v Z), Z normal truncated to 0..gust, with the
-    drag area +-10 % and the density +-5 % (uniform; dropcalc.zone.Uncertainty, documented
+    drag area +-10 % and the density +-5 % (uniform; dropcalc.analysis.zone.Uncertainty, documented
     defaults). A sample is carried away when U t_fall > 5 km, t_fall = h / v_t + (v_t / g) ln 2
     (Timmerman & van der Weele 1999). The expected share is that probability, computed here
     with scipy.stats.truncnorm over a grid of the drag and density factors. Expected: the JSON

@@ -17,8 +17,8 @@ from pathlib import Path
 import numpy as np
 import pytest
 
+from dropcalc.analysis.fall import FallCase, solve_fall
 from dropcalc.errors import InputError
-from dropcalc.fall import FallCase, solve_fall
 from dropcalc.physics.release import Release
 from dropcalc.physics.trajectory import WindField, solve_falls
 from dropcalc.physics.wind import wind_spec

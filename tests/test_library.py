@@ -19,9 +19,10 @@ from pathlib import Path
 
 import pytest
 
-from dropcalc import library, resources
+from dropcalc import resources
 from dropcalc.errors import InputError, UnknownObjectError
-from dropcalc.library import HAZARDS, DropObject, load_library
+from dropcalc.io import library
+from dropcalc.io.library import HAZARDS, DropObject, load_library
 from dropcalc.physics import shapes
 
 REPO = Path(__file__).resolve().parents[1]

@@ -1,4 +1,4 @@
-"""Plan geometry (dropcalc.plan) and the site-plan drawing (dropcalc.plan_plot).
+"""Plan geometry (dropcalc.analysis.plan) and the site-plan drawing (dropcalc.present.plan_plot).
 
 Check values come from closed forms (stadium area, Minkowski sum of a square and a segment,
 Steiner's formula), from the WGS84 ellipsoid (NIMA TR8350.2) through series written down from
@@ -19,8 +19,7 @@ import pytest
 import shapely
 from shapely.geometry import LinearRing, Point, Polygon, box
 
-from dropcalc.errors import InputError
-from dropcalc.plan import (
+from dropcalc.analysis.plan import (
     ExclusionArea,
     Site,
     WorkEdge,
@@ -30,7 +29,8 @@ from dropcalc.plan import (
     segment_normals,
     to_geojson,
 )
-from dropcalc.plan_plot import nice_length, plot_plan
+from dropcalc.errors import InputError
+from dropcalc.present.plan_plot import nice_length, plot_plan
 
 SQUARE = ((0.0, 0.0), (10.0, 0.0), (10.0, 10.0), (0.0, 10.0))
 
@@ -144,7 +144,7 @@ def test_swept_square_is_the_minkowski_sum() -> None:
 def test_margin_adds_perimeter_times_margin_plus_pi_margin_squared() -> None:
     # Steiner formula for a convex plane set K: area(K ⊕ mB) = area(K) + perimeter(K)·m + π m²
     # (Steiner 1840; e.g. Schneider, Convex Bodies: The Brunn-Minkowski Theory, 2014, eq. 4.2.27
-    # from memory). The rounded corners are 32-segment quarter circles in dropcalc.plan
+    # from memory). The rounded corners are 32-segment quarter circles in dropcalc.analysis.plan
     # (BUFFER_QUAD_SEGMENTS), π m² short by ≈ 4e-4 relative: tolerance 1e-3 · π m².
     margin = 2.5
     site = Site(outline=None, edges=(WorkEdge("edge", ((0.0, 0.0), (12.0, 5.0)), 9.0),))
@@ -429,7 +429,10 @@ def test_plot_plan_bad_inputs_raise(tmp_path: Path, name: str, wind: float, fiel
 
 
 def test_matplotlib_is_imported_only_when_drawing() -> None:
-    code = "import sys, dropcalc.plan, dropcalc.plan_plot; print('matplotlib' in sys.modules)"
+    code = (
+        "import sys, dropcalc.analysis.plan, dropcalc.present.plan_plot; "
+        "print('matplotlib' in sys.modules)"
+    )
     result = subprocess.run(
         [sys.executable, "-c", code], capture_output=True, text=True, check=True
     )

@@ -1,4 +1,4 @@
-"""Tests of the control policy (:mod:`dropcalc.policy`) and ``dropcalc batch --policy``.
+"""Tests of the control policy (:mod:`dropcalc.model.policy`) and ``dropcalc batch --policy``.
 
 Quantities in a policy file are converted with exact unit definitions: 1 cm^2 = 1e-4 m^2,
 1 ft·lbf = 1.355818 J (NIST SP 811, 2008, App. B.9: 1.355 818 E+00, rounded there),
@@ -17,7 +17,7 @@ from typer.testing import CliRunner
 
 from dropcalc.cli import app
 from dropcalc.errors import InputError
-from dropcalc.policy import DEFAULT_RULES, ControlRule, load_policy, suggest_control
+from dropcalc.model.policy import DEFAULT_RULES, ControlRule, load_policy, suggest_control
 
 runner = CliRunner()
 

@@ -32,7 +32,7 @@ Found and since fixed in the library by other changes made while this file was w
 ``zone --seed -5`` raised numpy's ValueError (now "seed must be a whole number >= 0"); and
 ``zone --height 30 --mass "1 g" --drag-area 0.1 --wind 30 --barricade 50`` printed numpy's
 "RuntimeWarning: invalid value encountered in scalar subtract" on stderr from
-``dropcalc.zone.quantile_with_error`` when every sample was carried away (kept as a plain
+``dropcalc.analysis.zone.quantile_with_error`` when every sample was carried away (kept as a plain
 regression test at that function).
 """
 
@@ -476,11 +476,11 @@ def test_a_line_break_in_a_value_keeps_the_message_on_one_line(args: list[str]) 
 
 # Found by these properties (zone --height 30 --mass "1 g" --drag-area 0.1 --wind 30
 # --barricade 50 printed numpy's RuntimeWarning "invalid value encountered in scalar subtract")
-# and fixed in dropcalc.zone meanwhile: kept as a plain regression test at the function.
+# and fixed in dropcalc.analysis.zone meanwhile: kept as a plain regression test at the function.
 def test_quantile_of_samples_all_carried_away_warns_nothing() -> None:
     import numpy as np
 
-    from dropcalc.zone import quantile_with_error
+    from dropcalc.analysis.zone import quantile_with_error
 
     with warnings.catch_warnings():
         warnings.simplefilter("error")

@@ -6,7 +6,7 @@ separators with decimal commas, duplicate ids and formulas in cells. Each gives 
 message (file, row or key, reason) and loses no good row.
 
 Batch lists are built by hypothesis from a mix of good rows (library ids from
-``dropcalc.library.load_library()``, duplicates included, and custom rows with a mass and a drag
+``dropcalc.io.library.load_library()``, duplicates included, and custom rows with a mass and a drag
 area) and bad rows (garbage cells, a missing drag area, 100 000-character cells, formulas such
 as ``=1+1`` and ``@SUM(A1)``, unit errors such as ``5 s``, unknown ids, an id with a mass, bad
 quantities), extra columns, shuffled columns, blank lines, labels that start like a formula,
@@ -53,7 +53,7 @@ from hypothesis import strategies as st
 from typer.testing import CliRunner
 
 from dropcalc.cli import app
-from dropcalc.library import load_library
+from dropcalc.io.library import load_library
 
 runner = CliRunner()
 ENV = {"COLUMNS": "100", "FORCE_COLOR": None, "TERM": "dumb"}

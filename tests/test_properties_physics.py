@@ -71,8 +71,10 @@ from hypothesis import HealthCheck, event, given, settings
 from hypothesis import strategies as st
 from hypothesis.control import currently_in_test_context
 
+from dropcalc.analysis.fall import FallCase, solve_fall
+from dropcalc.analysis.zone import Uncertainty, ZoneObject, ZoneSettings, sample_object
 from dropcalc.errors import InputError, ModelValidityWarning, UnknownObjectError
-from dropcalc.fall import FallCase, solve_fall
+from dropcalc.model.reference_levels import REFERENCE_LEVELS, reference_level
 from dropcalc.physics.atmosphere import air_state
 from dropcalc.physics.gravity import gravity
 from dropcalc.physics.impact import impact_from_solution
@@ -95,9 +97,7 @@ from dropcalc.physics.shapes import (
 )
 from dropcalc.physics.trajectory import WindField, solve_falls
 from dropcalc.physics.wind import TERRAIN_ALIASES, TERRAIN_CLASSES, terrain, wind_spec
-from dropcalc.reference_levels import REFERENCE_LEVELS, reference_level
 from dropcalc.units import KINDS, parse_quantity
-from dropcalc.zone import Uncertainty, ZoneObject, ZoneSettings, sample_object
 
 # --------------------------------------------------------------------------------------------
 # Strategies

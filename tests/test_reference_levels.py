@@ -1,4 +1,4 @@
-"""Tests of the energy reference levels (:mod:`dropcalc.reference_levels`).
+"""Tests of the energy reference levels (:mod:`dropcalc.model.reference_levels`).
 
 Each level is recomputed here from the test parameters its standard or paper states
 (REFERENCES.md §7) and compared at the precision the level is printed with:
@@ -21,7 +21,7 @@ from __future__ import annotations
 import pytest
 
 from dropcalc.errors import DropcalcError, UnknownObjectError
-from dropcalc.reference_levels import (
+from dropcalc.model.reference_levels import (
     CAUTION_LEVELS,
     DEFAULT_LEVEL_KEYS,
     REFERENCE_LEVELS,

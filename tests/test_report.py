@@ -306,8 +306,8 @@ def test_object_table_takes_each_item_where_it_strikes_hardest(tmp_path: Path) -
     """Each row is the batch row of the work area (its highest edge, its release) giving the
     highest energy, named in ``work_area``; checked against `dropcalc batch` for that area and
     against the vacuum bound E <= m (g H + v0^2 / 2) (energy conservation without drag)."""
+    from dropcalc.io.scenario import load_scenario
     from dropcalc.report.build import build_results
-    from dropcalc.scenario import load_scenario
 
     scenario = tmp_path / "scenario.toml"
     scenario.write_text(AREAS, encoding="utf-8")

@@ -1,4 +1,4 @@
-"""The scenario file (dropcalc.scenario, ``dropcalc report``): errors, line numbers, defaults.
+"""The scenario file (dropcalc.io.scenario, ``dropcalc report``): errors, line numbers, defaults.
 
 A mistake in a scenario must stop ``dropcalc report`` with exit code 2, exactly one line on
 stderr naming the file, the line of the offending key and its key path, and no PDF. The line
@@ -26,8 +26,8 @@ from typer.testing import CliRunner
 
 from dropcalc.cli import app
 from dropcalc.errors import InputError
+from dropcalc.io.scenario import load_scenario
 from dropcalc.report.pdf import keep_clear
-from dropcalc.scenario import load_scenario
 
 runner = CliRunner()
 
@@ -301,7 +301,7 @@ def test_scenario_error_leaves_an_old_pdf_untouched(tmp_path: Path) -> None:
 
 
 def test_minimal_scenario_takes_documented_defaults(tmp_path: Path) -> None:
-    from dropcalc.policy import DEFAULT_RULES
+    from dropcalc.model.policy import DEFAULT_RULES
 
     path = tmp_path / "scenario.toml"
     path.write_text(MINIMAL, encoding="utf-8")

@@ -1,4 +1,4 @@
-"""Checks of dropcalc.zone: Monte Carlo radius and its error, envelope, scatter, plan, inverses.
+"""Checks of dropcalc.analysis.zone: Monte Carlo radius, its error, envelope, scatter, inverses.
 
 Independent references:
 
@@ -31,13 +31,8 @@ import numpy as np
 import pytest
 import shapely
 
-from dropcalc.errors import InputError
-from dropcalc.library import load_library
-from dropcalc.physics.release import Release
-from dropcalc.physics.scatter import FRAGMENT_SPEED_FRACTION, SURFACES, Surface, surface
-from dropcalc.physics.wind import wind_spec
-from dropcalc.plan import Site, WorkEdge, from_geojson_local, to_geojson
-from dropcalc.zone import (
+from dropcalc.analysis.plan import Site, WorkEdge, from_geojson_local, to_geojson
+from dropcalc.analysis.zone import (
     ENVELOPE_SEARCH_ALLOWANCE,
     Uncertainty,
     ZoneObject,
@@ -50,6 +45,11 @@ from dropcalc.zone import (
     sample_object,
     site_zone,
 )
+from dropcalc.errors import InputError
+from dropcalc.io.library import load_library
+from dropcalc.physics.release import Release
+from dropcalc.physics.scatter import FRAGMENT_SPEED_FRACTION, SURFACES, Surface, surface
+from dropcalc.physics.wind import wind_spec
 
 G = 9.80665  # standard gravity [m/s^2], 3rd CGPM (1901); REFERENCES.md header
 

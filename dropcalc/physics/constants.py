@@ -108,7 +108,7 @@ IRREGULAR_COMPACTNESS_FACTOR = 0.8
 #: of sheets is from Holmes, Letchford & Lin, J. Wind Eng. Ind. Aerodyn. 94 (2006) 21-39.
 GLIDE_THICKNESS_RATIO = 0.1
 
-# --- WGS84 ellipsoid (used by dropcalc.plan for local metres <-> lon/lat) ---------------------
+# --- WGS84 ellipsoid (used by dropcalc.analysis.plan for local metres <-> lon/lat) ---------
 
 #: WGS84 semi-major axis a [m]. NIMA TR8350.2, 3rd ed. (2000), Table 3.1 (defining parameter).
 WGS84_SEMI_MAJOR_AXIS = 6378137.0

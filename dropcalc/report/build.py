@@ -1,8 +1,8 @@
 """From a scenario to a report: run the zones and the object checks, draw the figures, write.
 
 The numbers come from the same functions as ``dropcalc zone`` and ``dropcalc batch``
-(:func:`dropcalc.zone.site_zone`, :func:`dropcalc.batch.solve_items`), so the PDF agrees with
-their JSON for the same inputs.
+(:func:`dropcalc.analysis.zone.site_zone`, :func:`dropcalc.analysis.batch.solve_items`), so the
+PDF agrees with their JSON for the same inputs.
 """
 
 from __future__ import annotations
@@ -16,8 +16,8 @@ from typing import Any
 import numpy as np
 
 from dropcalc import __version__
+from dropcalc.io.scenario import Scenario
 from dropcalc.report.data import JobInfo, ReportData, WorkAreaResult
-from dropcalc.scenario import Scenario
 from dropcalc.texts import keep_clear
 
 #: How many objects the figures show at most (the highest-energy and the zone-driving ones).
@@ -51,7 +51,7 @@ def load_text(name: str, scenario_dir: Path | None = None) -> str:
 
 
 def _zone_settings(scenario: Scenario, area: Any) -> Any:
-    from dropcalc.zone import Uncertainty, ZoneSettings
+    from dropcalc.analysis.zone import Uncertainty, ZoneSettings
 
     return ZoneSettings(
         height=max(edge.height for edge in area.site.edges),
@@ -108,18 +108,18 @@ def build_results(scenario: Scenario, figure_dir: Path, progress: Any = None) ->
     Parameters
     ----------
     scenario : Scenario
-        A loaded scenario (:func:`dropcalc.scenario.load_scenario`).
+        A loaded scenario (:func:`dropcalc.io.scenario.load_scenario`).
     figure_dir : Path
         Folder for the figure files (PNG).
     progress : callable, optional
         Progress callback passed to the Monte Carlo.
     """
-    from dropcalc.batch import sort_rows
+    from dropcalc.analysis.batch import sort_rows
+    from dropcalc.analysis.plan import to_geojson
+    from dropcalc.analysis.zone import site_zone, zone_objects_from_items
     from dropcalc.physics.release import describe
-    from dropcalc.plan import to_geojson
-    from dropcalc.plan_plot import plot_plan
-    from dropcalc.render import zone_statement
-    from dropcalc.zone import site_zone, zone_objects_from_items
+    from dropcalc.present.plan_plot import plot_plan
+    from dropcalc.present.text import zone_statement
 
     figure_dir.mkdir(parents=True, exist_ok=True)
     objects = zone_objects_from_items(scenario.items, scenario.library)
@@ -295,7 +295,7 @@ def _object_rows(scenario: Scenario) -> list[dict[str, Any]]:
     wind); the row of the area that gives the highest impact energy (smallest drag area) is
     kept, with that area's name in ``work_area``. With one work area this is simply that area.
     """
-    from dropcalc.batch import BatchSettings, solve_items
+    from dropcalc.analysis.batch import BatchSettings, solve_items
 
     toward = (scenario.wind.from_direction_deg + 180.0) % 360.0
     best: list[dict[str, Any] | None] = [None] * len(scenario.items)
@@ -362,7 +362,7 @@ def _figures(
     drivers: list[str],
 ) -> dict[str, Path]:
     """Side view and energy-against-height figures for the objects that matter most."""
-    from dropcalc.fall import wind_field
+    from dropcalc.analysis.fall import wind_field
     from dropcalc.physics.drag import drag_parameter
     from dropcalc.physics.release import initial_velocity
     from dropcalc.report.figures import EnergyCurve, SideViewCase, energy_height, side_view

@@ -8,7 +8,7 @@ lines. :func:`fall_figure` is the side view of one ``dropcalc fall`` result.
 Colours come from the cividis colour map (sequential, colour-blind safe), one per object;
 everything else is a neutral grey. matplotlib is imported inside the drawing functions only
 (an Agg canvas on a :class:`matplotlib.figure.Figure`, no pyplot state), so importing this
-module costs nothing. Files are written through :func:`dropcalc.output.write_atomic`: an error
+module costs nothing. Files are written through :func:`dropcalc.io.atomic.write_atomic`: an error
 while drawing or writing leaves no partial file.
 
 How the paths are computed
@@ -32,12 +32,12 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
 from dropcalc.errors import InputError, require_suffix
-from dropcalc.output import write_atomic
+from dropcalc.io.atomic import write_atomic
 from dropcalc.physics.constants import STANDARD_GRAVITY
 from dropcalc.physics.trajectory import WindField, sample_path, solve_falls
 
 if TYPE_CHECKING:
-    from dropcalc.fall import FallResult
+    from dropcalc.analysis.fall import FallResult
 
 FIGURE_FORMATS = (".png", ".svg")
 #: Resolution of PNG files [dots per inch].
@@ -824,7 +824,7 @@ def fall_cases(result: FallResult) -> list[SideViewCase]:
 
     Parameters
     ----------
-    result : dropcalc.fall.FallResult
+    result : dropcalc.analysis.fall.FallResult
         The solved fall.
 
     Returns
@@ -832,7 +832,7 @@ def fall_cases(result: FallResult) -> list[SideViewCase]:
     list of SideViewCase
         Smallest drag area first, the given wind before the gust.
     """
-    from dropcalc.fall import wind_field
+    from dropcalc.analysis.fall import wind_field
     from dropcalc.physics.drag import drag_parameter
     from dropcalc.physics.release import initial_velocity
 
@@ -874,7 +874,7 @@ def fall_figure(path: Path, result: FallResult) -> None:
     ----------
     path : pathlib.Path
         Output file.
-    result : dropcalc.fall.FallResult
+    result : dropcalc.analysis.fall.FallResult
         The solved fall.
 
     Raises
@@ -882,7 +882,7 @@ def fall_figure(path: Path, result: FallResult) -> None:
     InputError
         If the suffix is not .png or .svg or the folder cannot be written.
     """
-    from dropcalc.fall import CARRIED_AWAY_DISTANCE
+    from dropcalc.analysis.fall import CARRIED_AWAY_DISTANCE
 
     case = result.case
     label = case.object_name or case.object_id or f"object, {case.mass:g} kg"

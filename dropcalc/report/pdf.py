@@ -10,7 +10,7 @@ scenario file (name and SHA-256), the software version, the report date and "pag
 User text goes through :func:`xml.sax.saxutils.escape` before it reaches reportlab's paragraph
 markup, and the DejaVu fonts that ship with matplotlib are embedded so that ², ·, °, – and
 accented letters print. The file is built under a temporary name in the target folder and
-renamed over the target only when complete (:func:`dropcalc.output.write_atomic`).
+renamed over the target only when complete (:func:`dropcalc.io.atomic.write_atomic`).
 
 Distances to keep clear are rounded *up* to 0.1 m (rounding a clearance down would shrink it);
 other numbers are shown to three significant figures.
@@ -49,7 +49,7 @@ from reportlab.platypus import (
     TableStyle,
 )
 
-from dropcalc.output import write_atomic
+from dropcalc.io.atomic import write_atomic
 from dropcalc.report.data import ReportData, WorkAreaResult
 from dropcalc.texts import keep_clear
 
@@ -712,7 +712,7 @@ def _objects(data: ReportData, styles: dict[str, ParagraphStyle]) -> list[Flowab
 def _levels_legend(data: ReportData, styles: dict[str, ParagraphStyle]) -> list[Flowable]:
     if not data.levels:
         return []
-    from dropcalc.reference_levels import CAUTION_LEVELS, REFERENCE_LEVELS
+    from dropcalc.model.reference_levels import CAUTION_LEVELS, REFERENCE_LEVELS
 
     cells: list[list[Any]] = [
         [

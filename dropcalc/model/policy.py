@@ -1,7 +1,7 @@
 """Suggested controls: a documented, user-configurable rule list (first matching rule wins).
 
 The default rules tie the suggestion to the reference levels of
-:mod:`dropcalc.reference_levels`; the hierarchy of controls behind them (prevent the fall,
+:mod:`dropcalc.model.reference_levels`; the hierarchy of controls behind them (prevent the fall,
 then collective protection, then exclusion and personal protection) is common practice in
 work-at-height guidance, no single source. A site replaces the rules with its own TOML file::
 
@@ -30,7 +30,7 @@ from dataclasses import dataclass
 from pathlib import Path
 
 from dropcalc.errors import InputError, shorten
-from dropcalc.reference_levels import REFERENCE_LEVELS
+from dropcalc.model.reference_levels import REFERENCE_LEVELS
 
 
 @dataclass(frozen=True)

@@ -17,9 +17,9 @@ from typing import Any
 
 from shapely.geometry import MultiPolygon, Polygon
 
+from dropcalc.analysis.plan import ExclusionArea, Site, segment_normals
 from dropcalc.errors import InputError, require_suffix
-from dropcalc.output import write_atomic
-from dropcalc.plan import ExclusionArea, Site, segment_normals
+from dropcalc.io.atomic import write_atomic
 
 PLOT_FORMATS = (".png", ".svg")
 

@@ -52,7 +52,7 @@ def write_atomic(path: Path, write: Callable[[Path], None]) -> None:
 
 def write_rows(path: Path, rows: Sequence[dict[str, Any]]) -> None:
     """Write result rows as CSV, XLSX or JSON, chosen by the file suffix."""
-    from dropcalc.batch import rows_frame
+    from dropcalc.analysis.batch import rows_frame
 
     suffix = require_suffix(path, OUTPUT_FORMATS, "--out")
     if suffix == ".json":

@@ -9,7 +9,7 @@ into an area; the exclusion area is the union of these swept areas, widened by a
 with the building outline cut out.
 
 This module is geometry, not physics: it uses shapely and does no plotting (the drawing is in
-:mod:`dropcalc.plan_plot`).
+:mod:`dropcalc.present.plan_plot`).
 """
 
 from __future__ import annotations

@@ -49,7 +49,7 @@ class WorkArea:
 
     name: str
     release: Any  # dropcalc.physics.release.Release
-    site: Any  # dropcalc.plan.Site (outline shared, this area's edges)
+    site: Any  # dropcalc.analysis.plan.Site (outline shared, this area's edges)
 
 
 @dataclass(frozen=True)
@@ -66,7 +66,7 @@ class Scenario:
     ground: Any  # Surface
     origin: tuple[float, float] | None
     work_areas: tuple[WorkArea, ...]
-    items: Any  # list of dropcalc.batch.Item
+    items: Any  # list of dropcalc.analysis.batch.Item
     confidence: float
     margin: float
     precision: float
@@ -148,17 +148,17 @@ def load_scenario(path: Path) -> Scenario:
         For a file that cannot be read, is not TOML, or has a wrong key, value or unit; the
         message names the file, the line and the key path.
     """
-    from dropcalc.batch import BatchSettings, parse_items, read_table
-    from dropcalc.fall import MAX_RELEASE_HEIGHT, MIN_RELEASE_HEIGHT
-    from dropcalc.library import load_library
+    from dropcalc.analysis.batch import BatchSettings, parse_items, read_table
+    from dropcalc.analysis.fall import MAX_RELEASE_HEIGHT, MIN_RELEASE_HEIGHT
+    from dropcalc.analysis.plan import Site, WorkEdge
+    from dropcalc.io.library import load_library
+    from dropcalc.model.policy import DEFAULT_RULES, load_policy
+    from dropcalc.model.reference_levels import DEFAULT_LEVEL_KEYS, reference_level
     from dropcalc.physics.atmosphere import air_state
     from dropcalc.physics.gravity import gravity as local_gravity
     from dropcalc.physics.release import DEFAULT_ROOF_FRICTION, Release
     from dropcalc.physics.scatter import CONTACT_TILT_MAX, CONTACT_TILT_RANGE, surface
     from dropcalc.physics.wind import wind_spec
-    from dropcalc.plan import Site, WorkEdge
-    from dropcalc.policy import DEFAULT_RULES, load_policy
-    from dropcalc.reference_levels import DEFAULT_LEVEL_KEYS, reference_level
     from dropcalc.units import parse_quantity
 
     path = Path(path)
@@ -393,7 +393,7 @@ def load_scenario(path: Path) -> Scenario:
         areas.append(WorkArea(name, release, site))
 
     library = load_library()
-    from dropcalc.fall import check_object
+    from dropcalc.analysis.fall import check_object
 
     raw_objects = data.get("object", [])
     if not isinstance(raw_objects, list):

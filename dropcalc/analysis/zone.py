@@ -28,8 +28,8 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from dropcalc.analysis.fall import CARRIED_AWAY_DISTANCE, wind_field
 from dropcalc.errors import InputError, require_range, to_float
-from dropcalc.fall import CARRIED_AWAY_DISTANCE, wind_field
 from dropcalc.physics.atmosphere import AirState, air_state
 from dropcalc.physics.release import Release, initial_velocity
 from dropcalc.physics.scatter import (
@@ -101,7 +101,7 @@ class ZoneObject:
     glides: bool = False
 
     def __post_init__(self) -> None:
-        from dropcalc.fall import check_object
+        from dropcalc.analysis.fall import check_object
 
         check_object(self.mass, self.drag_area_min, 1.0, None, self.drag_area_max)
 
@@ -201,7 +201,7 @@ class ZoneSettings:
             raise InputError(f"height must be a finite length > 0 and <= 5000 m; got {height:g} m")
         require_range("confidence", self.confidence, 0.5, 0.9999, "")
         require_range("margin", self.margin, 0.0, 100.0, "m")
-        from dropcalc.fall import GRAVITY_RANGE
+        from dropcalc.analysis.fall import GRAVITY_RANGE
 
         require_range("gravity", self.gravity, *GRAVITY_RANGE, "m/s²")
         azimuth = to_float("edge_azimuth", self.edge_azimuth, "deg")
@@ -794,7 +794,7 @@ def greatest_height(
 class SiteZone:
     """The exclusion area around a site: per-segment zones and their union on the plan."""
 
-    area: object  # dropcalc.plan.ExclusionArea
+    area: object  # dropcalc.analysis.plan.ExclusionArea
     segments: tuple[tuple[str, int, ZoneResult], ...]  # (edge name, segment index, zone)
     driver: tuple[str, int, ZoneResult]  # the segment with the widest radius
 
@@ -820,14 +820,15 @@ def site_zone(
 
     Each segment gets its own Monte Carlo (its height and its outward direction, with the wind
     of the day); each object's rest positions give a footprint holding the confidence share of
-    them (:func:`dropcalc.plan.footprint`), swept along the segment and joined with the others,
-    plus the margin (:func:`dropcalc.plan.exclusion_area`). With ``wind_outward`` the wind
+    them (:func:`dropcalc.analysis.plan.footprint`), swept along the segment and joined with the
+    others,
+    plus the margin (:func:`dropcalc.analysis.plan.exclusion_area`). With ``wind_outward`` the wind
     blows straight out from each segment in turn (the conservative choice when the direction of
     the day is not known); otherwise it keeps the direction in ``settings``.
     """
     from dataclasses import replace
 
-    from dropcalc.plan import exclusion_area, footprint, segment_normals
+    from dropcalc.analysis.plan import exclusion_area, footprint, segment_normals
 
     segments = []
     footprints = []
@@ -851,7 +852,7 @@ def site_zone(
 
 
 def zone_object(obj: object) -> ZoneObject:
-    """The zone's view of a library object (:class:`dropcalc.library.DropObject`)."""
+    """The zone's view of a library object (:class:`dropcalc.io.library.DropObject`)."""
     return ZoneObject(
         name=obj.name,
         mass=obj.mass,

@@ -7,7 +7,7 @@ import textwrap
 
 import numpy as np
 
-from dropcalc.fall import CARRIED_AWAY_DISTANCE, FallCase, FallResult
+from dropcalc.analysis.fall import CARRIED_AWAY_DISTANCE, FallCase, FallResult
 from dropcalc.physics.impact import Impact
 from dropcalc.texts import CAUTION_SHORT, keep_clear
 from dropcalc.units import format_quantity
@@ -105,7 +105,7 @@ def render_fall(result: FallResult, system: str = "si") -> str:
     Parameters
     ----------
     result : FallResult
-        Output of :func:`dropcalc.fall.solve_fall`.
+        Output of :func:`dropcalc.analysis.fall.solve_fall`.
     system : {"si", "imperial"}
         Display units.
     """

@@ -18,7 +18,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
-from dropcalc.batch import (
+from dropcalc.analysis.batch import (
     KNOWN_COLUMNS,
     BatchSettings,
     _column_name,
@@ -250,7 +250,7 @@ def _write_lines(path: Path, rows: list[dict[str, Any]]) -> None:
 
 def write_run(path: Path, run: BatchRun) -> None:
     """Write the merged rows as CSV, XLSX or JSON (by suffix), streaming, atomically."""
-    from dropcalc.output import OUTPUT_FORMATS, write_atomic
+    from dropcalc.io.atomic import OUTPUT_FORMATS, write_atomic
 
     suffix = require_suffix(path, OUTPUT_FORMATS, "--out")
     columns = run.columns

@@ -20,21 +20,21 @@ from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
+from dropcalc.analysis.fall import CARRIED_AWAY_DISTANCE, wind_field
 from dropcalc.errors import DropcalcError, InputError, require_file, shorten
-from dropcalc.fall import CARRIED_AWAY_DISTANCE, wind_field
+from dropcalc.model.policy import DEFAULT_RULES, ControlRule, suggest_control
+from dropcalc.model.reference_levels import DEFAULT_LEVEL_KEYS, REFERENCE_LEVELS, ReferenceLevel
 from dropcalc.physics.atmosphere import AirState, air_state
 from dropcalc.physics.drag import drag_parameter
 from dropcalc.physics.impact import impact_from_solution
 from dropcalc.physics.release import Release, initial_velocity
 from dropcalc.physics.trajectory import FallSolution, solve_falls
 from dropcalc.physics.wind import WindSpec, wind_spec
-from dropcalc.policy import DEFAULT_RULES, ControlRule, suggest_control
-from dropcalc.reference_levels import DEFAULT_LEVEL_KEYS, REFERENCE_LEVELS, ReferenceLevel
 
 if TYPE_CHECKING:
     import pandas as pd
 
-    from dropcalc.library import Library
+    from dropcalc.io.library import Library
 
 #: Largest release height considered by the inverse solve [m]; above it a level is "never"
 #: reached (the engine's own limit, DESIGN.md: sites up to 5 km).
@@ -292,7 +292,7 @@ def parse_items(
     ``first_row`` is the spreadsheet number of the frame's first row (2 for a whole table; more
     for a later chunk of a long list).
     """
-    from dropcalc.fall import check_object
+    from dropcalc.analysis.fall import check_object
 
     items: list[Item] = []
     errors: list[RowError] = []
