@@ -28,7 +28,7 @@ from dropcalc.physics.atmosphere import (
 
 @pytest.mark.parametrize(
     ("elevation", "density"),
-    # ICAO Doc 7488/3 (1993) table, as quoted in REFERENCES.md §3 (geopotential height H).
+    # ICAO Doc 7488/3 (1993) table, as quoted in [ISA-1993] (geopotential height H).
     [(0.0, 1.225000), (1000.0, 1.111643), (2000.0, 1.006490)],
 )
 def test_isa_density_matches_icao_table(elevation: float, density: float) -> None:
@@ -89,7 +89,7 @@ def test_isa_refuses_one_bad_element_in_an_array() -> None:
 
 
 def test_humid_air_density_cipm2007_example() -> None:
-    # Picard et al., Metrologia 45 (2008) 149-155 (REFERENCES.md §3): 1.19931 kg/m3 at 20 degC,
+    # Picard et al., Metrologia 45 (2008) 149-155 ([ISA-1993]): 1.19931 kg/m3 at 20 degC,
     # 101325 Pa, 50 % RH, x_CO2 = 0.0004. We get 1.1993139: within half a unit of the printed
     # last digit (3e-6 relative), so the tolerance is the printed precision.
     density = float(humid_air_density(293.15, 101325.0, 0.5))

@@ -8,12 +8,12 @@ Check values come from outside the code under test:
   h = -(v_t^2 / 2g) ln(1 - 2E / (m v_t^2)) (Timmerman and van der Weele, "On the rise and fall
   of a ball with linear or quadratic drag", Am. J. Phys. 67 (1999) 538-546);
 - the terminal state in a uniform wind U: falling at v_t relative to the air and moving with it,
-  so the impact energy tends to 1/2 m (v_t^2 + U^2) (wind-frame principle, REFERENCES.md §1,
+  so the impact energy tends to 1/2 m (v_t^2 + U^2) (wind-frame principle, [TVDW-1999],
   derived);
 - exact unit definitions: 1 lb = 0.45359237 kg, 1 ft = 0.3048 m (NIST SP 811, 2008, App. B.9);
 - drag coefficients of a sphere 0.47 and a sharp-edged block edge-on 0.80 / face-on 1.05
   (White, *Fluid Mechanics*, tables 7.2-7.3; Hoerner, *Fluid-Dynamic Drag* 1965, ch. 3; from
-  memory, REFERENCES.md §2) and the largest projection of a box, sqrt((ab)^2 + (bc)^2 + (ca)^2)
+  memory, [WHITE-FM]) and the largest projection of a box, sqrt((ab)^2 + (bc)^2 + (ca)^2)
   (Cauchy's projection formula, derived).
 
 The CSV and XLSX fixtures are written into ``tmp_path`` by the tests.
@@ -65,7 +65,7 @@ CONTRACT_COLUMNS = (
     "error",
 )
 
-# Energy levels [J] of REFERENCES.md §7, by the key of their safe-height column.
+# Energy reference levels [J] (docs/references.md), by the key of their safe-height column.
 LEVEL_ENERGY = {
     "helmet_penetration": 24.5,  # EN 397 / ANSI/ISEA Z89.1 penetration test, lower end
     "helmet_en397": 49.0,  # EN 397:2012+A1, 5 kg from 1 m
@@ -334,7 +334,7 @@ def test_levels_above_the_terminal_energy_are_never_reached(wind):
     k = density * areas / (2 * masses)
     vt2 = G / k
     # Terminal state in a uniform wind: v_t relative to the air, moving with the wind
-    # (REFERENCES.md §1, wind-frame principle): energy -> 1/2 m (v_t^2 + U^2), from below.
+    # ([TVDW-1999], wind-frame principle): energy -> 1/2 m (v_t^2 + U^2), from below.
     ceiling = 0.5 * masses * (vt2 + wind**2)
     settings = BatchSettings(air=air_state(density=density), wind=wind_spec(wind))
     assert np.all(np.isposinf(safe_heights(masses, k, 1.001 * ceiling, settings)))

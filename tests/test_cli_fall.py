@@ -141,7 +141,7 @@ def test_json_still_air_drop_matches_the_quadratic_drag_closed_form() -> None:
     assert data["impact_angle_deg"] == pytest.approx(0.0, abs=1e-6)
     assert data["air_density_kg_m3"] == pytest.approx(1.2, rel=1e-12)
     # 95 % of v_t after h = -(v_t^2 / 2g) ln(1 - 0.95^2) = 1.1640 v_t^2 / g: inverted closed form
-    # above (REFERENCES.md section 1, derived).
+    # above (derived.
     h95 = -(v_t**2) / (2.0 * G) * math.log(1.0 - 0.95**2)
     assert h95 == pytest.approx(1.1640 * v_t**2 / G, rel=1e-4)
     assert data["height_to_95_percent_terminal_m"] == pytest.approx(h95, rel=1e-6)
@@ -157,7 +157,7 @@ def test_json_dense_object_falls_as_in_vacuum() -> None:
 
 
 def test_json_wind_frame_principle_gives_exact_drift_and_impact_angle() -> None:
-    # Wind-frame principle (REFERENCES.md section 1, derived): in a uniform wind U an object
+    # Wind-frame principle (derived: in a uniform wind U an object
     # released moving with the air (carrier velocity = U) falls relative to the air exactly as in
     # still air, so it drifts U t_fall with t_fall = (v_t/g) arccosh(exp(g h / v_t^2)), lands
     # with vertical speed v(h) and horizontal speed U, at atan(U / v(h)) from vertical.
@@ -177,7 +177,7 @@ def test_json_wind_frame_principle_gives_exact_drift_and_impact_angle() -> None:
 
 
 def test_json_object_released_at_rest_in_wind_drifts_less_than_wind_times_fall_time() -> None:
-    # Wind-frame principle (REFERENCES.md section 1, derived): released at rest, the object
+    # Wind-frame principle (derived: released at rest, the object
     # drifts less than U t_fall.
     data = fall_json(*DRAGGY, "--height", "30 m", "--wind", "8 m/s")
     assert 0.0 < data["drift_m"] < 8.0 * data["fall_time_s"]
@@ -349,7 +349,7 @@ def test_dense_throw_matches_vacuum_projectile() -> None:
 @pytest.mark.parametrize(
     ("extra", "acceleration_factor"),
     [
-        # Sliding: a = g (sin t - mu cos t), REFERENCES.md section 6 (derived; Halliday, Resnick &
+        # Sliding: a = g (sin t - mu cos t), derived ([HRW-2011]; Halliday, Resnick &
         # Walker, Fundamentals of Physics, ch. 6, block on an incline).
         (("--friction", "0.3"), lambda t: math.sin(t) - 0.3 * math.cos(t)),
         # Rolling solid cylinder: a = g sin t / (1 + I/(m r^2)), I/(m r^2) = 1/2 (Halliday,
@@ -408,7 +408,7 @@ def test_air_density_overrides_elevation_and_weather() -> None:
 @pytest.mark.parametrize(
     ("elevation", "density"),
     # ICAO Standard Atmosphere (Doc 7488/3, 1993) density at geopotential altitude 0 / 1000 /
-    # 2000 m, as printed in REFERENCES.md section 3. Tolerance: one unit of the last digit.
+    # 2000 m, as printed in [ISA-1993]. Tolerance: one unit of the last digit.
     [("0 m", 1.225000), ("1000 m", 1.111643), ("2000 m", 1.006490)],
 )
 def test_elevation_gives_isa_density(elevation: str, density: float) -> None:
@@ -418,7 +418,7 @@ def test_elevation_gives_isa_density(elevation: str, density: float) -> None:
 
 def test_temperature_pressure_humidity_give_cipm_density() -> None:
     # CIPM-2007 humid air at 20 degC, 101325 Pa, 50 % RH: 1.19931 kg/m^3 (Picard, Davis, Glaser
-    # & Fujii, Metrologia 45 (2008) 149-155, as quoted in REFERENCES.md section 3).
+    # & Fujii, Metrologia 45 (2008) 149-155, as quoted in [ISA-1993]).
     data = fall_json(
         *DRAGGY[:4], "--height", "30 m", "--air-temp", "20 degC", "--pressure", "101325 Pa",
         "--humidity", "50 %",
@@ -544,7 +544,7 @@ def test_windborne_limit_log_profile(args: tuple[str, ...]) -> None:
 )  # fmt: skip
 def test_every_terrain_class_is_accepted(terrain: str, profile: str) -> None:
     # EN 1991-1-4 defines its categories by roughness length (log law); ASCE 7 exposures by a
-    # power-law exponent (REFERENCES.md section 4).
+    # power-law exponent ([EN1991-1-4]).
     data = fall_json(*DRAGGY, "--height", "30 m", "--wind", "10 m/s", "--terrain", terrain)
     assert data["wind_profile"] == profile
     assert data["drift_m"] > 0

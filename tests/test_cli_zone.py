@@ -125,13 +125,13 @@ def test_dense_drop_in_still_air_with_a_flat_bounce_needs_only_the_margin() -> N
 def test_dense_drop_in_still_air_bounces_sideways_within_the_tilted_bounce_bounds() -> None:
     # Straight down at v = sqrt(2 g H) (vacuum; the dense object has negligible drag) onto a
     # contact tilted by theta: the rebound leaves with u_h = v sin(theta) cos(theta) (e_n + e_t)
-    # and u_z = v (e_n cos^2(theta) - e_t sin^2(theta)) (the velocity ratios of REFERENCES.md
-    # §6 applied about the tilted normal, derived by hand). It can at most hop on for ever,
+    # and u_z = v (e_n cos^2(theta) - e_t sin^2(theta)) (the velocity ratios of [DORREN-2003]
+    # applied about the tilted normal, derived by hand). It can at most hop on for ever,
     # 2 u_z u_h / (g (1 - e_n e_t)), and then slide at u_h / e_t, (u_h / e_t)^2 / (2 mu g),
     # with concrete's upper restitutions and lower friction; theta up to 15 deg (the default).
     data = zone_json("--height", "20 m", *DENSE, "--margin", "0 m")
     v = math.sqrt(2.0 * G * 20.0)
-    e_n, e_t, mu = 0.55, 0.95, 0.4  # concrete: REFERENCES.md §6 (from memory), friction table
+    e_n, e_t, mu = 0.55, 0.95, 0.4  # concrete: [DORREN-2003] (from memory), friction table
     bound = 0.0
     for theta in np.radians(np.linspace(0.0, 15.0, 151)):
         u_h = v * math.sin(theta) * math.cos(theta) * (e_n + e_t)

@@ -1,7 +1,7 @@
 """Tests of dropcalc.physics.closed_form: the vertical fall with quadratic drag.
 
 Oracles: the closed forms of Timmerman and van der Weele, "On the rise and fall of a ball with
-linear or quadratic drag", Am. J. Phys. 67 (1999) 538-546 (typed here from REFERENCES.md §1, not
+linear or quadratic drag", Am. J. Phys. 67 (1999) 538-546 (typed here from [TVDW-1999], not
 read from the module), Galileo's vacuum kinematics, their series expansions, and an independent
 numerical solution with scipy.integrate.solve_ivp (DOP853, rtol 1e-12).
 """
@@ -22,11 +22,11 @@ from dropcalc.physics.closed_form import (
     vertical_fall,
 )
 
-G = 9.80665  # standard gravity [m/s^2], 3rd CGPM (1901); REFERENCES.md header
+G = 9.80665  # standard gravity [m/s^2], 3rd CGPM (1901); [CGPM-1901]
 
 
 def terminal(drag_parameter: float, gravity: float = G) -> float:
-    """v_t = sqrt(g / k) [m/s] (Timmerman and van der Weele 1999; REFERENCES.md §1)."""
+    """v_t = sqrt(g / k) [m/s] (Timmerman and van der Weele 1999; [TVDW-1999])."""
     return math.sqrt(gravity / drag_parameter)
 
 
@@ -87,7 +87,7 @@ def test_vertical_fall_matches_solve_ivp(
 
 def test_fall_from_rest_closed_forms_agree_with_each_other() -> None:
     # Timmerman and van der Weele (1999): v(h), t(h), v(t), y(t) for a fall from rest
-    # (REFERENCES.md §1). t(h) fed into y(t) gives h back; fed into v(t) gives v(h).
+    # ([TVDW-1999]). t(h) fed into y(t) gives h back; fed into v(t) gives v(h).
     heights = np.array([0.5, 3.0, 30.0, 300.0, 3000.0])
     k = 0.02
     vt = terminal(k)
@@ -124,7 +124,7 @@ def test_speed_and_distance_after_time_match_solve_ivp() -> None:
 
 @pytest.mark.parametrize("ratio", [0.0, 0.3, 0.9, 1.0, 1.5, 4.0])
 def test_initial_downward_speed_below_and_above_terminal(ratio: float) -> None:
-    # Timmerman and van der Weele (1999), REFERENCES.md §1:
+    # Timmerman and van der Weele (1999), [TVDW-1999]:
     # v(h)^2 = v_t^2 - (v_t^2 - v0^2) exp(-2 g h / v_t^2), for v0 below, at and above v_t.
     k, h = 0.04, 25.0
     vt = terminal(k)
@@ -143,7 +143,7 @@ def test_initial_downward_speed_below_and_above_terminal(ratio: float) -> None:
 
 @pytest.mark.parametrize(("upward_speed", "drag_parameter"), [(15.0, 0.02), (5.0, 0.3), (40, 0.1)])
 def test_thrown_upward_apex_height_and_time(upward_speed: float, drag_parameter: float) -> None:
-    # Timmerman and van der Weele (1999), rising ball (REFERENCES.md §1):
+    # Timmerman and van der Weele (1999), rising ball ([TVDW-1999]):
     # apex H = (v_t^2 / 2g) ln(1 + v0^2/v_t^2), reached after t = (v_t/g) atan(v0/v_t).
     vt = terminal(drag_parameter)
     apex_height = vt**2 / (2.0 * G) * math.log(1.0 + upward_speed**2 / vt**2)
@@ -248,7 +248,7 @@ def test_fall_time_solves_the_printed_position_law_on_both_sides_of_the_short_fo
 
 
 def test_95_and_99_percent_of_terminal_speed() -> None:
-    # REFERENCES.md §1 [derived]: 95 % of v_t after 1.1640 v_t^2/g of fall, 99 % after
+    # [TVDW-1999] [derived]: 95 % of v_t after 1.1640 v_t^2/g of fall, 99 % after
     # 1.9585 v_t^2/g. Recomputed here from v(h) = v_t sqrt(1 - exp(-2gh/v_t^2)):
     # h/(v_t^2/g) = -ln(1 - f^2)/2. Printed to 4 decimals, so abs 5e-5.
     def scaled(f: float) -> float:

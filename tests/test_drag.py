@@ -2,7 +2,7 @@
 
 Sources: F = 1/2 rho C_d A V^2 opposing the relative velocity (White, Fluid Mechanics, 7th ed.
 (2011), sec. 7.6, from memory); v_t = sqrt(2 m g / (rho C_d A)) and k = rho C_d A / (2 m)
-(REFERENCES.md §1); Re = rho V L / mu, also against fluids.core.Reynolds; units checked with pint.
+([TVDW-1999]); Re = rho V L / mu, also against fluids.core.Reynolds; units checked with pint.
 """
 
 from __future__ import annotations
@@ -56,13 +56,13 @@ def test_drag_force_opposes_relative_velocity_and_has_newton_magnitude() -> None
 
 
 def test_no_drag_when_moving_with_the_air() -> None:
-    # v = w: no relative motion, no drag (the wind-frame principle, REFERENCES.md §1).
+    # v = w: no relative motion, no drag (the wind-frame principle, [TVDW-1999]).
     force = drag_force([3.0, -2.0, 0.0], [3.0, -2.0, 0.0], 1.2, 0.5)
     np.testing.assert_array_equal(force, [0.0, 0.0, 0.0])
 
 
 def test_terminal_speed_formula_and_force_balance() -> None:
-    # v_t = sqrt(2 m g / (rho Cd A)) (REFERENCES.md §1). 1 kg, CdA 0.01 m^2, rho 1.225:
+    # v_t = sqrt(2 m g / (rho Cd A)) ([TVDW-1999]). 1 kg, CdA 0.01 m^2, rho 1.225:
     # sqrt(2 * 9.80665 / 0.01225) = 40.0136 m/s (hand value).
     assert float(terminal_speed(1.0, 0.01, 1.225)) == pytest.approx(40.0136, rel=1e-5)
     # At v_t the drag on a body falling in still air balances its weight m g.
@@ -93,7 +93,7 @@ def test_reynolds_number_hand_value_and_fluids() -> None:
 
 
 def test_drag_parameter_hand_value_and_units() -> None:
-    # k = rho CdA / (2 m) [1/m] (REFERENCES.md §1): 1.225 * 0.01 / (2 * 1) = 6.125e-3 1/m.
+    # k = rho CdA / (2 m) [1/m] ([TVDW-1999]): 1.225 * 0.01 / (2 * 1) = 6.125e-3 1/m.
     assert float(drag_parameter(1.225, 0.01, 1.0)) == pytest.approx(6.125e-3, rel=1e-12)
     # Units: the same expression in pint reduces to 1/m, and k v^2 is an acceleration.
     ureg = pint.UnitRegistry()

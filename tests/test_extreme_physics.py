@@ -8,13 +8,13 @@ dropcalc:
 
 - vertical fall with quadratic drag, from rest, thrown down or thrown up: Timmerman, P. and van
   der Weele, J. P., "On the rise and fall of a ball with linear or quadratic drag", Am. J. Phys.
-  67 (1999) 538-546 (also REFERENCES.md section 1);
+  67 (1999) 538-546 (also [TVDW-1999]);
 - vacuum kinematics h = v0 t + g t^2 / 2 and v^2 = v0^2 + 2 g h (Halliday, Resnick and Walker,
   Fundamentals of Physics, 10th ed. (2014), ch. 2 and 4);
 - sliding down an incline with Coulomb friction, a = g (sin theta - mu cos theta) (same book,
-  ch. 6; REFERENCES.md section 6);
+  ch. 6; [DORREN-2003]);
 - the ICAO standard atmosphere (ICAO Doc 7488/3, 1993) through the ``ambiance`` package;
-- the wind-frame principle and its small-wind lower bound (REFERENCES.md section 1, derived).
+- the wind-frame principle and its small-wind lower bound (derived.
 
 Tests marked ``xfail(strict=True)`` describe the right behaviour of a defect found while
 writing this file; each reason gives the exact reproducer.
@@ -41,7 +41,7 @@ from dropcalc.physics.trajectory import WindField, solve_falls
 
 # Standard acceleration of gravity [m/s^2]. 3rd CGPM (1901), Comptes rendus p. 70.
 G = 9.80665
-# ISA sea-level density [kg/m^3]. ICAO Doc 7488/3 (1993), Table 1 (REFERENCES.md section 3).
+# ISA sea-level density [kg/m^3]. ICAO Doc 7488/3 (1993), Table 1 ([ISA-1993]).
 RHO_0 = 1.225
 # ISA earth radius for geopotential height [m]. ICAO Doc 7488/3 (1993), section 2.
 ISA_EARTH_RADIUS = 6356766.0
@@ -104,7 +104,7 @@ def terminal_speed(mass: float, drag_area: float, density: float = RHO_0) -> flo
 
 
 def drag_parameter(mass: float, drag_area: float, density: float = RHO_0) -> float:
-    """k = rho Cd A / (2 m) [1/m] (REFERENCES.md section 1)."""
+    """k = rho Cd A / (2 m) [1/m] ([TVDW-1999])."""
     return density * drag_area / (2.0 * mass)
 
 
@@ -364,7 +364,7 @@ def test_cli_draggy_object_from_1000_m_reaches_terminal_speed() -> None:
 
 def test_drift_from_1000_m_lies_between_the_wind_frame_bounds() -> None:
     """Released at rest in a uniform 5 m/s wind from 1000 m, 1 kg, Cd·A 0.02 m^2. Expected
-    (REFERENCES.md section 1, wind-frame principle, derived): the drift is below U t_fall of an
+    ([TVDW-1999], wind-frame principle, derived): the drift is below U t_fall of an
     object released moving with the wind (which drifts exactly U t_fall) and above the
     small-wind lower bound U [t - (v_t / g) atan(sinh(g t / v_t))]; moving with the wind it
     drifts U t_fall to 1e-6."""
@@ -386,7 +386,7 @@ def test_drift_from_1000_m_lies_between_the_wind_frame_bounds() -> None:
 
 
 def test_one_gram_object_energy_and_speed_are_sensible() -> None:
-    """0.001 kg with Cd·A 1e-4 m^2 (a 1 cm^2 flat fragment, Cd ~1; REFERENCES.md section 2)
+    """0.001 kg with Cd·A 1e-4 m^2 (a 1 cm^2 flat fragment, Cd ~1; [WHITE-FM], [HOERNER-1965])
     dropped from 20 m: v_t = 12.65 m/s, reached within 1.164 v_t^2 / g = 19 m. Expected through
     `fall --json`: speed and time from the closed form to 1e-6, energy = m v^2 / 2 (well under
     m g h = 0.196 J, at most m v_t^2 / 2 = 0.080 J), momentum m v."""
@@ -406,7 +406,7 @@ def test_one_gram_object_energy_and_speed_are_sensible() -> None:
 
 def test_five_tonne_bundle_is_nearly_vacuum_like() -> None:
     """A 5000 kg bundle of tubes side-on, Cd·A 1.5 m^2 (about 6 m x 0.3 m at Cd ~0.8,
-    REFERENCES.md section 2), from 30 m: v_t = 231 m/s, so drag lowers the speed by about
+    [WHITE-FM], [HOERNER-1965]), from 30 m: v_t = 231 m/s, so drag lowers the speed by about
     g h / (2 v_t^2) = 0.28 % below sqrt(2 g h) = 24.26 m/s. Expected: speed from the closed form
     to 1e-6, below and within 0.3 % of sqrt(2 g h); energy m v^2 / 2 ~ 1.47 MJ within 0.6 % of
     m g h; the text output prints the energy without error."""
@@ -438,7 +438,7 @@ def test_isa_density_at_5000_m_matches_ambiance() -> None:
     *geometric* height: ambiance.Atmosphere(5000).density = 0.73643. dropcalc takes the site
     elevation as geopotential height H (atmosphere.air_state docstring), and H = 5000 m is
     h = r0 H / (r0 - H) = 5003.94 m geometric, where ambiance gives 0.736116 kg/m^3. The
-    REFERENCES.md section 3 formulas give the same (T = 255.65 K, p = 54019.9 Pa). Expected:
+    [ISA-1993] formulas give the same (T = 255.65 K, p = 54019.9 Pa). Expected:
     dropcalc's density equals ambiance's at the matching height to 1e-5."""
     from ambiance import Atmosphere
 
@@ -571,7 +571,7 @@ ROOF = ("--release", "roof-slide", "--roof-length", "4 m", "--friction", str(FRI
 
 def slide_exit_speed(pitch_deg: float, length: float, friction: float) -> float:
     """sqrt(2 g (sin theta - mu cos theta) L): Halliday, Resnick & Walker (2014), ch. 6 and
-    v^2 = 2 a x (ch. 2); REFERENCES.md section 6."""
+    v^2 = 2 a x (ch. 2); [DORREN-2003]."""
     theta = math.radians(pitch_deg)
     return math.sqrt(2 * G * (math.sin(theta) - friction * math.cos(theta)) * length)
 

@@ -230,7 +230,7 @@ def test_style_key_sets_object_drag_bound_and_wind() -> None:
 
 def _levels() -> list[tuple[str, float]]:
     # EN 397:2012+A1 crown test 49 J (5 kg from 1 m); EN 14052 crown 100 J; ANSI/ISEA Z89.1
-    # Type I top 54.5 J (REFERENCES.md sec. 7) - close together, so their labels must stagger.
+    # Type I top 54.5 J ([Z89.1-2014]) - close together, so their labels must stagger.
     return [
         ("industrial helmet crown test energy, EN 397", 49.0),
         ("industrial helmet top test energy, ANSI/ISEA Z89.1 Type I", 54.5),

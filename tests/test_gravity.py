@@ -69,7 +69,7 @@ def test_local_gravity_against_second_order_free_air_form(
 
 
 def test_free_air_gradient() -> None:
-    # Conventional free-air gradient -0.3086 mGal/m = -3.086e-6 s^-2 (REFERENCES.md §5;
+    # Conventional free-air gradient -0.3086 mGal/m = -3.086e-6 s^-2 ([WGS84-2000];
     # Heiskanen & Moritz, Physical Geodesy, 1967, from memory). The first-order term of
     # TR8350.2 eq. 4-3 at 45 deg is -2 gamma/a (1 + f + m - f) = -3.0855e-6 s^-2: they agree
     # within 0.1 %.

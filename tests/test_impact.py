@@ -3,7 +3,7 @@
 Mostly built on synthetic FallSolution values, so that every expected number is a hand value:
 E = 1/2 m v^2 and p = m v (Newtonian mechanics), angles from the velocity components, compass
 azimuth clockwise from north (x east, y north). The terminal fraction is checked against the
-closed form of Timmerman and van der Weele, Am. J. Phys. 67 (1999) 538 (REFERENCES.md §1).
+closed form of Timmerman and van der Weele, Am. J. Phys. 67 (1999) 538 ([TVDW-1999]).
 """
 
 from __future__ import annotations
@@ -92,18 +92,18 @@ def test_not_landed_drift_azimuth_is_nan() -> None:
 @pytest.mark.parametrize(("release_height", "k"), [(2.0, 0.005), (10.0, 0.05), (60.0, 0.2)])
 def test_terminal_fraction_in_still_air_is_closed_form(release_height: float, k: float) -> None:
     # Still air, from rest: v(h)/v_t = sqrt(1 - exp(-2 g h / v_t^2)) (Timmerman and
-    # van der Weele 1999, REFERENCES.md §1), with v_t^2 / g = 1/k.
+    # van der Weele 1999, [TVDW-1999]), with v_t^2 / g = 1/k.
     solution = solve_falls(release_height, [0.0, 0.0, 0.0], k, closed_form=False)
     impact = impact_from_solution(solution, 1.0, k, G)
     expected = math.sqrt(1.0 - math.exp(-2.0 * k * release_height))
     assert impact.terminal_fraction[0] == pytest.approx(expected, rel=1e-6)
     assert impact.terminal_speed[0] == pytest.approx(math.sqrt(G / k), rel=1e-12)
-    # Height to 95 % of v_t: 1.1640 v_t^2/g (REFERENCES.md §1 [derived], 4 decimals).
+    # Height to 95 % of v_t: 1.1640 v_t^2/g ([TVDW-1999] [derived], 4 decimals).
     assert impact.height_to_95_percent[0] * k == pytest.approx(1.1640, abs=5e-5)
 
 
 def test_terminal_fraction_moving_with_uniform_wind_is_still_air_value() -> None:
-    # Wind-frame principle (REFERENCES.md §1): released with a uniform 8 m/s wind, the speed
+    # Wind-frame principle ([TVDW-1999]): released with a uniform 8 m/s wind, the speed
     # relative to the air at the ground is the still-air v(h), so the fraction is unchanged;
     # the ground-frame speed is sqrt(v(h)^2 + U^2).
     k, h, wind_speed = 0.05, 10.0, 8.0

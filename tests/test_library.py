@@ -3,7 +3,7 @@
 The mass checks recompute every derived mass here, from the object's dimensions with the
 textbook volume formulas (box abc; cylinder pi d² L / 4; tube pi L (D² - (D - 2t)²) / 4;
 sphere pi d³ / 6), not with ``dropcalc.physics.shapes.volume``, and compare the linear masses
-with the published values collected in REFERENCES.md §10 (scaffold tube 48.3 x 4.0 mm
+with the published values collected in [MASSES-DERIVED] (scaffold tube 48.3 x 4.0 mm
 4.37 kg/m, aluminium tube 48.3 x 4.47 mm 1.66 kg/m, rebar d²/162 kg/m, float glass 2.5 kg/m²
 per mm). The raw TOML files are read with ``tomllib`` so that the checks do not go through
 the loader they test.
@@ -164,9 +164,9 @@ def test_bundle_unit_masses_are_library_entries():
             assert masses[named[0]] == pytest.approx(table["unit_mass_kg"]), table["id"]
 
 
-# --- Linear and areal masses, REFERENCES.md §10 -------------------------------------------------
+# --- Linear and areal masses, [MASSES-DERIVED] -------------------------------------------------
 def test_steel_scaffold_tube_is_4_37_kg_per_m():
-    # REFERENCES.md §10: scaffold tube 48.3 x 4.0 mm 4.37 kg/m; within 1 % of steel 7850 kg/m³
+    # [MASSES-DERIVED]: scaffold tube 48.3 x 4.0 mm 4.37 kg/m; within 1 % of steel 7850 kg/m³
     # x the wall (checks the published value against the density, then every tube entry).
     wall = math.pi * (0.0483**2 - (0.0483 - 2 * 0.004) ** 2) / 4
     assert 7850 * wall == pytest.approx(4.37, rel=0.01)
@@ -182,7 +182,7 @@ def test_steel_scaffold_tube_is_4_37_kg_per_m():
 
 
 def test_aluminium_scaffold_tube_is_1_66_kg_per_m():
-    # REFERENCES.md §10: aluminium tube 48.3 x 4.47 mm 1.66 kg/m (aluminium 2700 kg/m³).
+    # [MASSES-DERIVED]: aluminium tube 48.3 x 4.47 mm 1.66 kg/m (aluminium 2700 kg/m³).
     wall = math.pi * (0.0483**2 - (0.0483 - 2 * 0.00447) ** 2) / 4
     assert 2700 * wall == pytest.approx(1.66, rel=0.01)
     tubes = with_density(lambda t: t["shape"] == "tube" and t["density_kg_m3"] == 2700)
@@ -192,7 +192,7 @@ def test_aluminium_scaffold_tube_is_1_66_kg_per_m():
 
 
 def test_rebar_is_d_squared_over_162_kg_per_m():
-    # REFERENCES.md §10: rebar d²/162 kg/m with d in mm.
+    # [MASSES-DERIVED]: rebar d²/162 kg/m with d in mm.
     bars = with_density(lambda t: t["id"].startswith("rebar-"))
     assert len(bars) >= 5
     for table in bars:
@@ -202,7 +202,7 @@ def test_rebar_is_d_squared_over_162_kg_per_m():
 
 
 def test_float_glass_is_2_5_kg_per_m2_per_mm():
-    # REFERENCES.md §10: float glass 2.5 kg/m² per mm of thickness.
+    # [MASSES-DERIVED]: float glass 2.5 kg/m² per mm of thickness.
     panes = [t for _, t in RAW if t["id"].startswith("float-glass-")]
     assert {round(t["dimensions_m"]["thickness"] * 1000) for t in panes} == {4, 6, 10}
     for table in panes:
@@ -212,7 +212,7 @@ def test_float_glass_is_2_5_kg_per_m2_per_mm():
 
 
 def test_brick_block_plywood_and_bolt_agree_with_references():
-    # REFERENCES.md §10: UK brick 2.2-3.0 kg; dense block 440 x 215 x 100 mm 19-20 kg;
+    # [MASSES-DERIVED]: UK brick 2.2-3.0 kg; dense block 440 x 215 x 100 mm 19-20 kg;
     # plywood 1220 x 2440 x 18 mm 27-32 kg; bolt M20 x 80 with nut 0.33 kg (2 significant
     # figures printed, so +-0.015 kg).
     lib = load_library()
@@ -225,7 +225,7 @@ def test_brick_block_plywood_and_bolt_agree_with_references():
 # --- Hazards -------------------------------------------------------------------------------------
 def test_hazard_words_follow_their_rules():
     for item in load_library():
-        # "heavy": 2.3 kg (5 lb) and above, REFERENCES.md §9 (common practice, no source).
+        # "heavy": 2.3 kg (5 lb) and above (common practice, no source).
         assert ("heavy" in item.hazards) == (item.mass >= 2.3), item.id
         # "glides-in-wind" exactly where the drag model flags a flat, gliding shape.
         assert ("glides-in-wind" in item.hazards) == item.glides, item.id

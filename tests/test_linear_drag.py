@@ -1,7 +1,7 @@
 """The vector integrator checked on linear (Stokes) drag, whose axes separate exactly.
 
 With acceleration -g e_z - b (v - U e_x) the three axes are independent linear ODEs
-[derived; REFERENCES.md §1 "Linear drag ... separates exactly into independent axes"]:
+[derived; [TVDW-1999] "Linear drag ... separates exactly into independent axes"]:
     x(t) = U t + (u0 - U) tau (1 - exp(-t/tau)),  tau = 1/b,
     z(t) = H - v_t t + (w0 + v_t) tau (1 - exp(-t/tau)),  v_t = g tau.
 The landing time solves z(t) = 0, found here with scipy.optimize.brentq (independent of the

@@ -128,8 +128,9 @@ def test_every_condition_of_a_rule_must_hold():
 
 
 def test_default_rules_follow_the_reference_levels():
-    # The default thresholds are the levels named in their text (REFERENCES.md §7):
-    # EN 14052 crown 100 J, helmet penetration 24.5 J, skin penetration 23.99 J/cm^2.
+    # The default thresholds are the levels named in their text:
+    # [EN14052-2012] crown 100 J, [Z89.1-2014] helmet penetration 24.5 J, [BIR-2012] skin
+    # penetration 23.99 J/cm^2.
     energies = [r.energy_at_least for r in DEFAULT_RULES if r.energy_at_least is not None]
     assert energies == [pytest.approx(100.0), pytest.approx(24.5)]
     per_area = [r.energy_per_area_at_least for r in DEFAULT_RULES if r.energy_per_area_at_least]

@@ -1,7 +1,8 @@
 """Tests of the energy reference levels (:mod:`dropcalc.model.reference_levels`).
 
 Each level is recomputed here from the test parameters its standard or paper states
-(REFERENCES.md §7) and compared at the precision the level is printed with:
+([EN397-2012], [Z89.1-2014], [EN14052-2012], [DESR-6055.09], [YOGANANDAN-1995], [BIR-2012],
+[DIMAIO-1981]) and compared at the precision the level is printed with:
 
 - EN 397:2012+A1, shock absorption: 5 kg striker dropped 1 m -> 5 x 9.80665 x 1 = 49.03 J
   (printed 49 J);

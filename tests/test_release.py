@@ -20,7 +20,7 @@ from dropcalc.physics.release import (
     slope_acceleration,
 )
 
-G = 9.80665  # standard gravity, 3rd CGPM (1901); REFERENCES.md header
+G = 9.80665  # standard gravity, 3rd CGPM (1901); [CGPM-1901]
 
 
 def _incline_exit_speed_by_ode(
@@ -97,7 +97,7 @@ def test_exit_speed_against_integrated_incline_ode(
 
 
 def test_roof_slide_leaves_along_the_slope() -> None:
-    # REFERENCES.md §6 [derived]: exit velocity along the roof slope, pitch below horizontal,
+    # derived: exit velocity along the roof slope, pitch below horizontal,
     # pointing away from the edge (edge facing east here, so +x).
     release = Release("roof-slide", roof_pitch=35.0, roof_length=4.0, friction=0.3)
     velocity = initial_velocity(release, edge_azimuth=90.0)

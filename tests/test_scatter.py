@@ -1,9 +1,9 @@
 """Checks of dropcalc.physics.scatter: hops, slide, roll and fragments after the first contact.
 
 Independent references: explicit hop-by-hop loops written here; the infinite geometric series of
-REFERENCES.md §6 [derived]; scipy.integrate.solve_ivp for a projectile (hop length, fragment
+derived; scipy.integrate.solve_ivp for a projectile (hop length, fragment
 range), a block decelerating at mu g (slide) and a skidding sphere with spin (the 5/7 rolling
-factor); the restitution ranges quoted in REFERENCES.md §6 (Dorren, Prog. Phys. Geogr. 27 (2003)
+factor); the restitution ranges quoted in [DORREN-2003] (Dorren, Prog. Phys. Geogr. 27 (2003)
 69-87; Chau et al., IJRMMS 39 (2002) 69-77; from memory).
 """
 
@@ -30,7 +30,7 @@ from dropcalc.physics.scatter import (
     surface,
 )
 
-G = 9.80665  # standard gravity [m/s^2], 3rd CGPM (1901); REFERENCES.md header
+G = 9.80665  # standard gravity [m/s^2], 3rd CGPM (1901); [CGPM-1901]
 
 
 # --- independent references ------------------------------------------------------------------
@@ -42,7 +42,7 @@ def hops_by_loop(
     """Rebound by rebound: (distance of the counted hops, hop count, per-hop (v_n, v_h)).
 
     Each rebound multiplies the normal speed by e_n and the tangential speed by e_t
-    (REFERENCES.md §6); a hop is counted while its rebound normal speed is >= stop; a hop
+    ([DORREN-2003]); a hop is counted while its rebound normal speed is >= stop; a hop
     leaving with (v_z, v_x) lands after 2 v_z / g and covers 2 v_z v_x / g (flat ground, no
     drag; Halliday, Resnick & Walker, Fundamentals of Physics, ch. 4, from memory).
     """
@@ -136,7 +136,7 @@ def test_truncated_hop_sum_equals_the_hop_by_hop_loop(
 
 
 def test_infinite_hop_sum_equals_the_geometric_series() -> None:
-    # REFERENCES.md §6 [derived]: total (2 v_n v_h / g) e_n e_t / (1 - e_n e_t).
+    # derived: total (2 v_n v_h / g) e_n e_t / (1 - e_n e_t).
     v_n, v_h, e_n, e_t = 12.0, 4.0, 0.45, 0.9
     series = 2 * v_n * v_h / G * e_n * e_t / (1 - e_n * e_t)
     assert float(hop_distance(v_n, v_h, e_n, e_t, math.inf)) == pytest.approx(series, rel=1e-12)
@@ -339,7 +339,7 @@ def test_vectorised_equals_scalar() -> None:
 # --- surfaces and sampling -------------------------------------------------------------------
 
 
-# REFERENCES.md §6, from memory: Dorren, Prog. Phys. Geogr. 27 (2003) 69-87; Chau et al.,
+# [DORREN-2003], from memory: Dorren, Prog. Phys. Geogr. 27 (2003) 69-87; Chau et al.,
 # IJRMMS 39 (2002) 69-77. key: (e_n range, e_t range).
 PUBLISHED_RESTITUTION = {
     "concrete": ((0.45, 0.55), (0.85, 0.95)),

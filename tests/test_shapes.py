@@ -3,9 +3,9 @@
 Sources: Cauchy's mean projected area S/4 of a convex body (Vouk, Nature 162 (1948) 330),
 checked both as a closed form and by a Monte Carlo over uniformly random rotations
 (scipy.spatial.transform.Rotation.random); maxima and minima of projected areas by brute-force
-search over orientations (scipy.optimize.minimize); C_d rows typed from REFERENCES.md §2 (from
+search over orientations (scipy.optimize.minimize); C_d rows typed from [WHITE-FM] (from
 memory of White, Fluid Mechanics, tables 7.2-7.3 and Hoerner, Fluid-Dynamic Drag (1965) ch. 3);
-sphere C_d against fluids.drag.drag_sphere; masses per metre from REFERENCES.md §10.
+sphere C_d against fluids.drag.drag_sphere; masses per metre from [MASSES-DERIVED].
 """
 
 from __future__ import annotations
@@ -135,7 +135,7 @@ def test_box_largest_projection_exceeds_largest_face() -> None:
 
 
 def test_masses_per_metre_match_references() -> None:
-    # REFERENCES.md §10: scaffold tube 48.3 x 4.0 mm steel (7850 kg/m^3) 4.37 kg/m;
+    # [MASSES-DERIVED]: scaffold tube 48.3 x 4.0 mm steel (7850 kg/m^3) 4.37 kg/m;
     # aluminium tube 48.3 x 4.47 mm (2700 kg/m^3) 1.66 kg/m; rebar d^2/162 kg/m (d in mm);
     # float glass 2.5 kg/m^2 per mm. Printed to 3 significant figures.
     steel = 7850 * volume("tube", length=1.0, outer_diameter=0.0483, wall_thickness=0.004)
@@ -153,7 +153,7 @@ def test_box_mean_projected_area_is_cauchy_and_monte_carlo(
     edges: tuple[float, float, float],
 ) -> None:
     a, b, c = edges
-    # Closed form: box S/4 = (ab + bc + ca)/2 (REFERENCES.md §2; Vouk 1948).
+    # Closed form: box S/4 = (ab + bc + ca)/2 ([WHITE-FM], [HOERNER-1965]; Vouk 1948).
     expected = (a * b + b * c + c * a) / 2
     _, _, mean = projected_areas("box", length=a, width=b, height=c)
     assert float(mean) == pytest.approx(expected, rel=1e-12)
@@ -232,9 +232,9 @@ def test_cylinder_extreme_projections_by_brute_force(length: float, diameter: fl
 
 # --- drag coefficients --------------------------------------------------------------------------
 
-# REFERENCES.md §2 (from memory of White, Fluid Mechanics, tables 7.2-7.3; Hoerner,
+# [WHITE-FM], [HOERNER-1965] (from memory of White, Fluid Mechanics, tables 7.2-7.3; Hoerner,
 # Fluid-Dynamic Drag (1965) ch. 3), typed row by row.
-REFERENCES_SECTION_2 = {
+CD_PUBLISHED = {
     "sphere": 0.47,  # sphere, subcritical (1e3 < Re < ~2e5)
     "cube_face": 1.05,  # cube, face on
     "cube_edge": 0.80,  # cube, edge on
@@ -261,18 +261,18 @@ REFERENCES_SECTION_2 = {
 
 
 def test_cd_table_holds_every_references_row() -> None:
-    for key, cd in REFERENCES_SECTION_2.items():
+    for key, cd in CD_PUBLISHED.items():
         assert CD_TABLE[key].cd == cd, key
         assert CD_TABLE[key].key == key
         assert CD_TABLE[key].source
-    # The one extra row: a smooth sphere past the drag crisis, REFERENCES.md §2 "0.1-0.2",
+    # The one extra row: a smooth sphere past the drag crisis, [WHITE-FM], [HOERNER-1965] "0.1-0.2",
     # low end.
-    assert set(CD_TABLE) - set(REFERENCES_SECTION_2) == {"sphere_supercritical"}
+    assert set(CD_TABLE) - set(CD_PUBLISHED) == {"sphere_supercritical"}
     assert CD_TABLE["sphere_supercritical"].cd == 0.10
 
 
 def test_sphere_cd_agrees_with_fluids_in_the_subcritical_range() -> None:
-    # fluids.drag.drag_sphere (Barati correlation, as REFERENCES.md §2 advises for fluids
+    # fluids.drag.drag_sphere (Barati correlation, advised for fluids
     # 1.3.1) stays inside the quoted 0.4-0.5 band for 1e4 <= Re <= 1.5e5, and near 0.47.
     cds = [drag_sphere(re, Method="Barati") for re in (1e4, 3e4, 1e5, 1.5e5)]
     assert all(0.38 <= cd <= 0.52 for cd in cds), cds
@@ -280,7 +280,7 @@ def test_sphere_cd_agrees_with_fluids_in_the_subcritical_range() -> None:
 
 
 def test_cd_interpolation_reproduces_table_points() -> None:
-    # The interpolators pass through the REFERENCES.md §2 rows.
+    # The interpolators pass through the [WHITE-FM], [HOERNER-1965] rows.
     np.testing.assert_allclose(
         plate_normal_drag_coefficient([1.0, 5.0, 10.0, 20.0]), [1.18, 1.20, 1.30, 1.50]
     )
@@ -322,7 +322,7 @@ def test_cd_interpolation_is_monotone_and_clamped() -> None:
 
 def test_bar_falls_end_on_for_the_smallest_drag_area() -> None:
     # L/D = 2 bar, D = 0.05: end-on 0.85 x pi D^2/4 = 1.66897e-3, side-on 0.68 x L D = 3.4e-3
-    # (REFERENCES.md §2 rows; hand values).
+    # ([WHITE-FM], [HOERNER-1965] rows; hand values).
     bounds = drag_bounds("cylinder", length=0.1, diameter=0.05)
     assert float(bounds.drag_area_min) == pytest.approx(1.66897e-3, rel=1e-5)
     assert float(bounds.drag_area_max) == pytest.approx(3.4e-3, rel=1e-12)
@@ -330,7 +330,7 @@ def test_bar_falls_end_on_for_the_smallest_drag_area() -> None:
 
 
 def test_plate_face_on_gives_the_largest_drag_area_and_glides() -> None:
-    # 1.0 x 0.1 x 0.005 m strip, aspect 10: face-on 1.30 x 0.1 = 0.130 m^2 (REFERENCES.md §2).
+    # 1.0 x 0.1 x 0.005 m strip, aspect 10: face-on 1.30 x 0.1 = 0.130 m^2 ([WHITE-FM]).
     bounds = drag_bounds("plate", length=1.0, width=0.1, thickness=0.005)
     assert float(bounds.drag_area_max) == pytest.approx(0.130, rel=1e-12)
     assert bool(bounds.glides)
@@ -349,10 +349,10 @@ def test_cube_bounds_bracket_a_tumbling_cube() -> None:
     a = 0.1
     bounds = drag_bounds("box", length=a, width=a, height=a)
     # Envelope: 0.80 (cube edge on) x a^2 and 1.05 (cube face on) x sqrt(3) a^2
-    # (REFERENCES.md §2 rows; hand values 8.0e-3 and 1.818653e-2 m^2).
+    # ([WHITE-FM], [HOERNER-1965] rows; hand values 8.0e-3 and 1.818653e-2 m^2).
     assert float(bounds.drag_area_min) == pytest.approx(8.0e-3, rel=1e-12)
     assert float(bounds.drag_area_max) == pytest.approx(1.818653e-2, rel=1e-6)
-    # Tumbling 1.05 S/4 = 1.05 x 1.5 a^2 = 1.575e-2 m^2 (REFERENCES.md §2, Cauchy).
+    # Tumbling 1.05 S/4 = 1.05 x 1.5 a^2 = 1.575e-2 m^2 ([WHITE-FM], [HOERNER-1965], Cauchy).
     assert float(bounds.drag_area_typical) == pytest.approx(1.575e-2, rel=1e-12)
     # Ganser, Powder Technol. 77 (1993), Newton regime (from memory): C_d = 0.4305 K2 on the
     # equal-volume sphere's area, K2 = 10^(1.8148 (-log10 psi)^0.5743), psi = sphericity
@@ -367,13 +367,13 @@ def test_cube_bounds_bracket_a_tumbling_cube() -> None:
 
 
 def test_sphere_min_equals_max_unless_drag_crisis() -> None:
-    # Cd 0.47 x pi (0.1)^2/4 = 3.69137e-3 m^2 (REFERENCES.md §2; hand value).
+    # Cd 0.47 x pi (0.1)^2/4 = 3.69137e-3 m^2 ([WHITE-FM], [HOERNER-1965]; hand value).
     bounds = drag_bounds("sphere", diameter=0.1)
     assert float(bounds.drag_area_min) == float(bounds.drag_area_max)
     assert float(bounds.drag_area_min) == pytest.approx(3.69137e-3, rel=1e-5)
     assert float(bounds.drag_area_typical) == float(bounds.drag_area_max)
     crisis = drag_bounds("sphere", diameter=0.1, drag_crisis=True)
-    # Post-crisis smooth sphere 0.1 (REFERENCES.md §2 "0.1-0.2", low end): 7.85398e-4 m^2.
+    # Post-crisis smooth sphere 0.1 ([WHITE-FM], [HOERNER-1965] "0.1-0.2", low end): 7.85398e-4 m^2.
     assert float(crisis.drag_area_min) == pytest.approx(7.85398e-4, rel=1e-5)
     assert float(crisis.drag_area_max) == float(bounds.drag_area_max)
     with pytest.raises(InputError, match="drag_crisis"):

@@ -2,8 +2,8 @@
 
 Where the integrator itself is under test the closed-form fast path is switched off
 (``closed_form=False``). Oracles: the closed forms of Timmerman and van der Weele, Am. J. Phys.
-67 (1999) 538 (REFERENCES.md §1), the wind-frame principle and small-wind drift limit
-(REFERENCES.md §1, derived), Galileo's vacuum fall, a published skydiving terminal speed, and the
+67 (1999) 538 ([TVDW-1999]), the wind-frame principle and small-wind drift limit
+(derived, Galileo's vacuum fall, a published skydiving terminal speed, and the
 sphere terminal-speed correlations of the ``fluids`` library (fluids.drag.v_terminal).
 The random sweep against solve_ivp lives in tests/test_trajectory_accuracy.py.
 """
@@ -20,15 +20,15 @@ from dropcalc.physics.closed_form import vertical_fall
 from dropcalc.physics.drag import drag_area, drag_parameter, terminal_speed
 from dropcalc.physics.trajectory import STIFF_FALL_HEIGHT, WindField, sample_path, solve_falls
 
-G = 9.80665  # standard gravity [m/s^2], 3rd CGPM (1901); REFERENCES.md header
+G = 9.80665  # standard gravity [m/s^2], 3rd CGPM (1901); [CGPM-1901]
 
 # Air at 20 degC and 101325 Pa, dry: rho = p / (R T) with R = 287.05287 J/(kg K) (ICAO Doc
-# 7488/3, REFERENCES.md §3) -> 1.2041 kg/m^3; Sutherland mu = 1.458e-6 T^1.5/(T + 110.4)
-# (REFERENCES.md §3) -> 1.8134e-5 Pa s.
+# 7488/3, [ISA-1993]) -> 1.2041 kg/m^3; Sutherland mu = 1.458e-6 T^1.5/(T + 110.4)
+# ([ISA-1993]) -> 1.8134e-5 Pa s.
 AIR_DENSITY_20C = 101325.0 / (287.05287 * 293.15)
 AIR_VISCOSITY_20C = 1.458e-6 * 293.15**1.5 / (293.15 + 110.4)
 # Subcritical sphere drag coefficient: White, Fluid Mechanics, table 7.3 (from memory);
-# REFERENCES.md §2 gives 0.47 (0.4-0.5) for 1e3 < Re < ~2e5.
+# [WHITE-FM], [HOERNER-1965] gives 0.47 (0.4-0.5) for 1e3 < Re < ~2e5.
 SPHERE_DRAG_COEFFICIENT = 0.47
 
 
@@ -43,7 +43,7 @@ def sphere_drag_parameter(diameter: float, density: float, air_density: float) -
 
 
 def test_dense_compact_object_falls_as_in_vacuum() -> None:
-    # Steel ball, 10 cm diameter (7850 kg/m^3, REFERENCES.md §10; 4.11 kg), 2 m fall in air at
+    # Steel ball, 10 cm diameter (7850 kg/m^3, [MASSES-DERIVED]; 4.11 kg), 2 m fall in air at
     # 20 degC: g h / v_t^2 ~ 1e-3, so within 0.1 % of Galileo's sqrt(2 g h) and sqrt(2 h / g).
     k = sphere_drag_parameter(0.10, 7850.0, AIR_DENSITY_20C)
     h = 2.0
@@ -81,7 +81,7 @@ def test_integrator_agrees_with_vertical_closed_form(
     release_height: float, k: float, downward_speed: float
 ) -> None:
     # Timmerman and van der Weele (1999): exact t(h) and v(h), incl. rise and apex
-    # (REFERENCES.md §1; the module is itself checked against solve_ivp in test_closed_form).
+    # ([TVDW-1999]; the module is itself checked against solve_ivp in test_closed_form).
     # Default tolerance 1e-8; the module promises better than 1e-5 relative: 1e-6 here.
     solution = solve_falls(release_height, [0.0, 0.0, -downward_speed], k, closed_form=False)
     time, speed = vertical_fall(release_height, downward_speed, k, G)
@@ -124,7 +124,7 @@ def test_ground_contact_is_located_inside_the_last_step(k: float) -> None:
 def test_released_moving_with_the_wind_drifts_exactly_wind_times_fall_time(
     k: float, wind_speed: float
 ) -> None:
-    # Wind-frame principle (REFERENCES.md §1, derived): in a steady uniform wind U an object
+    # Wind-frame principle (derived: in a steady uniform wind U an object
     # released with velocity U moves vertically relative to the air, so its drift is U t_fall
     # and t_fall is the still-air closed form.
     h = 40.0
@@ -141,7 +141,7 @@ def test_released_moving_with_the_wind_drifts_exactly_wind_times_fall_time(
 
 @pytest.mark.parametrize("k", [0.01, 0.2])
 def test_released_at_rest_drifts_less_than_wind_times_fall_time(k: float) -> None:
-    # Wind-frame principle (REFERENCES.md §1): released at rest it starts with a headwind
+    # Wind-frame principle ([TVDW-1999]): released at rest it starts with a headwind
     # relative to the air and is never faster than the wind horizontally: 0 < x < U t_fall.
     wind_speed = 10.0
     solution = solve_falls(
@@ -152,7 +152,7 @@ def test_released_at_rest_drifts_less_than_wind_times_fall_time(k: float) -> Non
 
 
 def test_small_wind_drift_limit() -> None:
-    # Small-wind limit (REFERENCES.md §1, derived): for U << v_t, released at rest,
+    # Small-wind limit (derived: for U << v_t, released at rest,
     # x(t) = U [t - (v_t/g) atan(sinh(g t / v_t))], a lower bound for finite U; agrees with a
     # numerical solution to 2e-4 relative for U/v_t = 0.003 (we find ~3e-5).
     k = 0.01
@@ -228,7 +228,7 @@ def test_skydiver_belly_to_earth_terminal_speed() -> None:
     # A skydiver in a stable belly-to-earth position falls at about 54-56 m/s (about 120 mph):
     # common knowledge in the sport, e.g. US Parachute Association, Skydiver's Information
     # Manual (from memory). 80 kg and Cd A = 0.46 m^2 (a plausible value, assumed here) at ISA
-    # 1000 m, rho = 1.111643 kg/m^3 (ICAO Doc 7488/3, REFERENCES.md §3): after a 3000 m fall the
+    # 1000 m, rho = 1.111643 kg/m^3 (ICAO Doc 7488/3, [ISA-1993]): after a 3000 m fall the
     # speed must be in that range.
     mass, cd_area, rho = 80.0, 0.46, 1.111643
     k = float(drag_parameter(rho, cd_area, mass))
@@ -239,8 +239,8 @@ def test_skydiver_belly_to_earth_terminal_speed() -> None:
 
 
 # Solid spheres 2-5 cm in air at 20 degC, all subcritical (Re < 2e5, checked below).
-# Densities: steel 7850 and aluminium 2700 kg/m^3 (REFERENCES.md §10); rubber 1150 and
-# wood 600 kg/m^3 (from memory; timber 500-650 in REFERENCES.md §10).
+# Densities: steel 7850 and aluminium 2700 kg/m^3 ([MASSES-DERIVED]); rubber 1150 and
+# wood 600 kg/m^3 (from memory; timber 500-650 in [MASSES-DERIVED]).
 SPHERES = [
     pytest.param(0.02, 7850.0, id="steel 2 cm"),
     pytest.param(0.02, 2700.0, id="aluminium 2 cm"),
@@ -250,7 +250,7 @@ SPHERES = [
     pytest.param(0.02, 600.0, id="wood 2 cm"),
     pytest.param(0.05, 600.0, id="wood 5 cm"),
 ]
-# fluids 1.3.1 correlations valid below the drag crisis (REFERENCES.md §2: pass a Method).
+# fluids 1.3.1 correlations valid below the drag crisis (pass a Method).
 SPHERE_CORRELATIONS = ("Barati", "Clift", "Morrison")
 
 
@@ -258,9 +258,9 @@ SPHERE_CORRELATIONS = ("Barati", "Clift", "Morrison")
 def test_sphere_terminal_speed_against_fluids_correlations(diameter: float, density: float) -> None:
     # Oracle: fluids.drag.v_terminal (fluids 1.3.1) with the Barati, Clift and Morrison Cd(Re)
     # correlations. The engine uses a constant Cd = 0.47 (White, table 7.3, from memory). The
-    # 0.4-0.5 band of REFERENCES.md §2 moves v_t by -3 % / +8 %; we require the engine within
+    # 0.4-0.5 band of [WHITE-FM] moves v_t by -3 % / +8 %; we require the engine within
     # the correlations' spread widened by 5 % on each side. fluids includes buoyancy, the engine
-    # neglects it (rho_air/rho_sphere <= 2e-3, REFERENCES.md §1).
+    # neglects it (rho_air/rho_sphere <= 2e-3, [TVDW-1999]).
     k = sphere_drag_parameter(diameter, density, AIR_DENSITY_20C)
     vt = math.sqrt(G / k)
     # A fall of 8 v_t^2/g reaches v_t sqrt(1 - e^-16): v_t to 1e-7 (Timmerman and van der Weele).
@@ -311,7 +311,7 @@ def test_closed_form_path_honours_max_time() -> None:
 
 def test_closed_form_path_honours_max_distance() -> None:
     # Released moving with a uniform 10 m/s wind it drifts U t_fall = 53 m (wind-frame
-    # principle, REFERENCES.md §1; t_fall = 5.3 s); with max_distance 20 m it is not a landing.
+    # principle, [TVDW-1999]; t_fall = 5.3 s); with max_distance 20 m it is not a landing.
     wind = WindField(speed_10m=10.0)
     solution = solve_falls(100.0, [10.0, 0.0, 0.0], 0.01, wind=wind, max_distance=20.0)
     assert not solution.landed[0]
@@ -368,7 +368,7 @@ def test_mixed_drag_parameters_each_match_their_closed_form() -> None:
 # written out here. The paths are sampled with the cubic Hermite interpolant (Hairer, Norsett
 # and Wanner, *Solving Ordinary Differential Equations I*, 2nd ed. 1993, sec. II.6).
 
-# A power-law wind, V(z) = V10 (z / 10 m)^alpha (REFERENCES.md §4), held at its value at
+# A power-law wind, V(z) = V10 (z / 10 m)^alpha ([EN1991-1-4]), held at its value at
 # z_min below z_min (EN 1991-1-4:2005, eq. 4.4).
 PATH_WIND_SPEED = 12.0  # [m/s]
 PATH_WIND_EAST, PATH_WIND_NORTH = 0.6, 0.8  # [-]

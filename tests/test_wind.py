@@ -22,7 +22,7 @@ from dropcalc.physics.wind import (
 )
 
 # EN 1991-1-4:2005, Table 4.1: category -> (z0 [m], z_min [m]). Typed here from the standard
-# (as summarised in REFERENCES.md section 4), not read from the module under test.
+# (as summarised in [EN1991-1-4]), not read from the module under test.
 EN_TABLE_4_1 = {
     "en-0": (0.003, 1.0),
     "en-i": (0.01, 1.0),

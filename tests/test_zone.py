@@ -11,7 +11,7 @@ Independent references:
   a sample quantile, sqrt(p (1 - p) / n) / f(q) (H. A. David and H. N. Nagaraja, "Order
   Statistics", 3rd ed., Wiley, 2003, sec. 10.2; R. J. Serfling, "Approximation Theorems of
   Mathematical Statistics", Wiley, 1980, sec. 2.3.3; from memory);
-- the slide and hop formulas of REFERENCES.md §6 [derived] for bounds on the scatter;
+- the slide and hop formulas of derived for bounds on the scatter;
 - shapely's own predicates and distances (is_valid, contains_xy, distance, hausdorff_distance).
 
 A "dense" object (10 kg, drag area 1e-7 m^2) has k = rho Cd A / (2 m) ~ 6e-9 1/m, so over a
@@ -51,7 +51,7 @@ from dropcalc.physics.release import Release
 from dropcalc.physics.scatter import FRAGMENT_SPEED_FRACTION, SURFACES, Surface, surface
 from dropcalc.physics.wind import wind_spec
 
-G = 9.80665  # standard gravity [m/s^2], 3rd CGPM (1901); REFERENCES.md header
+G = 9.80665  # standard gravity [m/s^2], 3rd CGPM (1901); [CGPM-1901]
 
 DENSE = ZoneObject("dense test mass", mass=10.0, drag_area_min=1e-7, drag_area_max=1e-7)
 
@@ -318,7 +318,7 @@ def test_scatter_on_concrete_lies_between_the_slide_and_all_hops_plus_the_slide(
     # Dense object pushed at exactly V = 4 m/s, still air: it lands with v_h = V and
     # v_n = sqrt(2 g H). The travel after landing is at least the slide V^2 / (2 mu_max g) and
     # at most every hop plus the slide at V, (2 v_n v_h / g) r / (1 - r) + V^2 / (2 mu_min g),
-    # r = e_n e_t at the top of the ranges (REFERENCES.md §6 [derived]).
+    # r = e_n e_t at the top of the ranges (derived).
     top, height = 4.0, 20.0
     concrete = SURFACES["concrete"]
     settings = ZoneSettings(
@@ -344,9 +344,9 @@ def _tilted_bound(tilt_max: float, height: float, rolls: bool) -> float:
     """Longest travel after a straight drop onto concrete with the contact tilted <= tilt_max.
 
     Vertical impact v = sqrt(2 g H) on a normal tilted by t: u_h = v sin t cos t (e_n + e_t),
-    u_z = v (e_n cos^2 t - e_t sin^2 t) (velocity ratios of REFERENCES.md §6 about the tilted
+    u_z = v (e_n cos^2 t - e_t sin^2 t) (velocity ratios of [DORREN-2003] about the tilted
     normal, derived by hand); then at most all hops 2 u_z u_h / (g (1 - e_n e_t)) and a slide
-    at u_h / e_t, or for a round body a skid to (5/7) of it and a roll-out (REFERENCES.md §6).
+    at u_h / e_t, or for a round body a skid to (5/7) of it and a roll-out ([DORREN-2003]).
     Concrete: e_n <= 0.55, e_t <= 0.95 (from memory), mu >= 0.4, c_rr >= 0.01.
     """
     e_n, e_t, mu, c_rr = 0.55, 0.95, 0.4, 0.01

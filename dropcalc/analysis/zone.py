@@ -132,7 +132,7 @@ class Uncertainty:
         Relative half-width of the uniform spread of the roof friction (roof-slide). [-]
     drag_coefficient_spread : float
         Relative half-width of the uniform spread of C_d on top of the orientation spread
-        (REFERENCES.md §2: Cd tables are good to about +-10 % above Re 1e4, from memory). [-]
+        ([WHITE-FM]: Cd tables are good to about +-10 % above Re 1e4, from memory). [-]
     density_spread : float
         Relative half-width of the uniform spread of air density during the work (a +-15 K
         day is +-5 %, from the ideal gas law). [-]

@@ -48,8 +48,8 @@ HAZARDS: Mapping[str, str] = MappingProxyType(
     }
 )
 #: Mass at and above which an object carries the "heavy" hazard [kg]: 5 lb, the usual limit
-#: above which tools are tethered to the structure rather than the wrist (REFERENCES.md §9,
-#: common practice, no source).
+#: above which tools are tethered to the structure rather than the wrist
+#: (common practice, no source).
 HEAVY_MASS = 2.3
 
 #: Mass bases an object may declare, besides ``density_kg_m3`` and ``mass_range_kg``.

@@ -104,7 +104,7 @@ DEFAULT_RULES: tuple[ControlRule, ...] = (
 )
 
 #: Tools heavier than this are tethered to the structure rather than the wrist [kg]
-#: (about 5 lb; common practice, no source; REFERENCES.md §9).
+#: (about 5 lb; common practice, no source).
 WRIST_TETHER_LIMIT = 2.3
 
 

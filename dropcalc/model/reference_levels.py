@@ -1,4 +1,7 @@
-"""Energy reference levels to compare impacts with (REFERENCES.md §7).
+"""Energy reference levels to compare impacts with.
+
+Sources: [EN397-2012], [Z89.1-2014], [EN14052-2012], [DESR-6055.09], [YOGANANDAN-1995],
+[BIR-2012], [DIMAIO-1981] (docs/references.md).
 
 They are references, not safe limits: a helmet test energy is not a protection rating, and
 injury can happen well below every level here. Each level is labelled by what it is (the test

@@ -53,7 +53,7 @@ DEFAULT_GUST_FACTOR = 1.5
 # --- Air and gravity (used by atmosphere.py and gravity.py) ---------------------------------
 
 #: ISA pressure exponent g0/(R L) in p = p0 (T/T0)^n [-]. ICAO Doc 7488/3 (1993), as quoted in
-#: REFERENCES.md §3 (g0 / (287.05287 x 0.0065) = 5.2558770; the printed 5.255880 is used).
+#: [ISA-1993] (g0 / (287.05287 x 0.0065) = 5.2558770; the printed 5.255880 is used).
 ISA_PRESSURE_EXPONENT = 5.255880
 
 #: Molar gas constant adopted in CIPM-2007 [J/(mol K)]. Picard et al., Metrologia 45 (2008) 149.
@@ -89,13 +89,13 @@ WGS84_SOMIGLIANA_CONSTANT = 0.00193185265241
 WGS84_FIRST_ECCENTRICITY_SQUARED = 0.00669437999013
 
 #: Conventional free-air gradient of normal gravity [1/s^2] (-0.3086 mGal/m), linear
-#: approximation of NIMA TR8350.2 (2000), eq. 4-3. REFERENCES.md §5.
+#: approximation of NIMA TR8350.2 (2000), eq. 4-3. [WGS84-2000].
 FREE_AIR_GRADIENT = -3.086e-6
 
 # --- Shape-based drag (used by dropcalc.physics.shapes) --------------------------------------
 
 #: Tumbling drag area divided by the mean projected area S/4 of a convex body [-].
-#: REFERENCES.md §2 gives (1.0-1.1) S/4, derived from Ganser, Powder Technol. 77 (1993) 143-152;
+#: (1.0-1.1) S/4, derived from [GANSER-1993] (Ganser, Powder Technol. 77 (1993) 143-152);
 #: the middle of that range is taken.
 TUMBLING_DRAG_FACTOR = 1.05
 

@@ -8,7 +8,7 @@ Four release modes, each given in the vertical plane through the outward normal 
   away from the edge;
 - ``roof-slide``: slides (or rolls) down a pitched roof towards the edge and leaves the eave
   along the roof slope, ``roof_pitch`` below the horizontal, at v = sqrt(v0^2 + 2 a L) with
-  a = g (sin theta - mu cos theta) (REFERENCES.md §6). Air drag and rolling resistance on the
+  a = g (sin theta - mu cos theta) ([HRW-2011]). Air drag and rolling resistance on the
   roof are neglected, so the exit speed is an upper bound.
 
 The velocity of a moving carrier (hoist, hook, lift basket) is added in every mode.

@@ -20,12 +20,12 @@ air drag, in three pieces, after an optional first step:
 
        B_j = (2 v_n v_h / g) r (1 - r^j) / (1 - r),
 
-   which tends to (2 v_n v_h / g) r / (1 - r) for j -> infinity (REFERENCES.md §6 [derived]).
+   which tends to (2 v_n v_h / g) r / (1 - r) for j -> infinity (derived).
 2. Slide. Once the hopping ends, the object slides on with the horizontal speed of its last
    hop, v = e_t^j v_h, and stops after s = v^2 / (2 mu g) (constant Coulomb friction,
-   REFERENCES.md §6 [3]_). A round object (ball, pipe, drum) instead rolls: a sphere landing
+   [DORREN-2003] [3]_). A round object (ball, pipe, drum) instead rolls: a sphere landing
    without spin skids, with friction acting, until it rolls at (5/7) v (angular momentum about
-   the contact point, REFERENCES.md §6 [derived] [3]_), then rolls out against a small rolling
+   the contact point, derived [3]_), then rolls out against a small rolling
    resistance: s = (v^2 - (5 v / 7)^2) / (2 mu g) + (5 v / 7)^2 / (2 c_rr g).
 3. Fragments. A fragile object (glass, tiles, blocks) that breaks throws fragments from the
    impact point: :func:`fragment_allowance` adds the ballistic range of a fragment leaving at a
@@ -49,10 +49,10 @@ References
 ----------
 .. [1] L. K. A. Dorren, "A review of rockfall mechanics and modelling approaches", Progress in
    Physical Geography 27 (2003) 69-87, restitution coefficients by surface type (from memory,
-   as quoted in REFERENCES.md §6).
+   as quoted in [DORREN-2003]).
 .. [2] K. T. Chau, R. H. C. Wong and J. J. Wu, "Coefficient of restitution and rotational
    motions of rockfall impacts", International Journal of Rock Mechanics and Mining Sciences
-   39 (2002) 69-77 (from memory, as quoted in REFERENCES.md §6).
+   39 (2002) 69-77 (from memory, as quoted in [DORREN-2003]).
 .. [3] D. Halliday, R. Resnick and J. Walker, "Fundamentals of Physics", 10th ed., Wiley, 2014,
    ch. 4 (projectile range on flat ground), ch. 6 (kinetic friction), ch. 11 (rolling, angular
    momentum); chapter numbers from memory.
@@ -145,7 +145,7 @@ class Surface:
 
 _RESTITUTION_SOURCE = (
     "e_n, e_t: Dorren, Prog. Phys. Geogr. 27 (2003) 69-87; Chau et al., IJRMMS 39 (2002) "
-    "69-77 (from memory, REFERENCES.md §6)"
+    "69-77 (from memory, [DORREN-2003])"
 )
 _FRICTION_SOURCE = (
     "mu: steel, concrete or timber sliding on the surface (from memory; common practice, no source)"
@@ -332,7 +332,7 @@ def hop_distance(
 
     References
     ----------
-    REFERENCES.md §6 [derived]; projectile range 2 v_x v_z / g from D. Halliday, R. Resnick and
+    derived; projectile range 2 v_x v_z / g from D. Halliday, R. Resnick and
     J. Walker, "Fundamentals of Physics", 10th ed., Wiley, 2014, ch. 4 (from memory).
     """
     v_n = _check_speed("vertical_speed", vertical_speed)
@@ -390,8 +390,7 @@ def first_rebound(
     The impact velocity v = (v_h, 0, -v_n) (x along the horizontal impact direction) meets a
     contact whose normal n is tilted by ``tilt`` from the vertical towards ``tilt_azimuth``
     (measured from x, counter-clockwise). The normal part of v is reversed and scaled by e_n,
-    the tangential part scaled by e_t (the velocity ratios of rockfall practice, REFERENCES.md
-    §6):
+    the tangential part scaled by e_t (the velocity ratios of rockfall practice, [DORREN-2003]):
 
         v' = -e_n (v . n) n + e_t (v - (v . n) n).
 
@@ -429,7 +428,7 @@ def first_rebound(
     ----------
     T. J. Pfeiffer and T. D. Bowen, "Computer simulation of rockfalls", Bulletin of the
     Association of Engineering Geologists 26 (1989) 135-146 (a random slope angle at each
-    impact for surface roughness; from memory). REFERENCES.md §6 (restitution).
+    impact for surface roughness; from memory). [DORREN-2003] (restitution).
     """
     v_n = _check_speed("vertical_speed", vertical_speed)
     v_h = _check_speed("horizontal_speed", horizontal_speed)
@@ -542,7 +541,7 @@ def scatter_distance(
 
     References
     ----------
-    REFERENCES.md §6; L. K. A. Dorren, Progress in Physical Geography 27 (2003) 69-87 and
+    [DORREN-2003]; L. K. A. Dorren, Progress in Physical Geography 27 (2003) 69-87 and
     K. T. Chau et al., IJRMMS 39 (2002) 69-77 (restitution, from memory); D. Halliday,
     R. Resnick and J. Walker, "Fundamentals of Physics", 10th ed., Wiley, 2014, ch. 4, 6, 11
     (projectile range, kinetic friction, rolling; from memory).

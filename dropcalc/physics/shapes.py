@@ -6,9 +6,9 @@ This module turns that description into the drag areas the trajectory solver nee
 
 - the smallest C_d A over orientations, which gives the highest impact energy;
 - the largest C_d A, which gives the longest drift in wind;
-- a tumbling value, (1.0-1.1) S/4 (REFERENCES.md §2), here 1.05 S/4.
+- a tumbling value, (1.0-1.1) S/4 ([GANSER-1993]), here 1.05 S/4.
 
-Drag coefficients come from one table, :data:`CD_TABLE` (REFERENCES.md §2, from memory of
+Drag coefficients come from one table, :data:`CD_TABLE` ([WHITE-FM], [HOERNER-1965], from memory of
 White, *Fluid Mechanics*, tables 7.2-7.3, and Hoerner, *Fluid-Dynamic Drag* (1965), ch. 3),
 valid for Reynolds numbers above about 1e4. Sharp-edged bodies (boxes, plates, most tools) have
 a C_d nearly independent of Re there; the orientation is the big uncertainty (a factor 1.5-2 on
@@ -81,7 +81,7 @@ GLIDE_WARNING = (
 
 _SOURCE_TABLE = (
     "White, Fluid Mechanics, tables 7.2-7.3; Hoerner, Fluid-Dynamic Drag (1965) ch. 3 "
-    "(from memory; REFERENCES.md §2)"
+    "(from memory; [WHITE-FM], [HOERNER-1965])"
 )
 
 
@@ -120,9 +120,9 @@ def _entries(*rows: CdEntry) -> Mapping[str, CdEntry]:
 
 
 #: THE drag-coefficient table that code, docs and reports read (Re above about 1e4, C_d on the
-#: frontal area). Every row of REFERENCES.md §2, from memory of White, *Fluid Mechanics*,
+#: frontal area). Every row of [WHITE-FM], [HOERNER-1965], from memory of White, *Fluid Mechanics*,
 #: tables 7.2-7.3, and Hoerner, *Fluid-Dynamic Drag* (1965) ch. 3, plus one row for a smooth
-#: sphere past the drag crisis (REFERENCES.md §2 text).
+#: sphere past the drag crisis ([WHITE-FM], [HOERNER-1965] text).
 CD_TABLE: Mapping[str, CdEntry] = _entries(
     CdEntry("sphere", "sphere", "any; subcritical, 1e3 < Re < 2e5", 0.47, _SOURCE_TABLE),
     CdEntry(
@@ -130,7 +130,7 @@ CD_TABLE: Mapping[str, CdEntry] = _entries(
         "smooth sphere",
         "any; past the drag crisis, Re > 2e5 to 4e5",
         0.10,
-        "REFERENCES.md §2: 0.1-0.2 past the drag crisis (from memory); the low end is taken "
+        "[HOERNER-1965]: 0.1-0.2 past the drag crisis (from memory); the low end is taken "
         "because the smallest drag gives the highest impact energy",
     ),
     CdEntry("cube_face", "cube", "face on", 1.05, _SOURCE_TABLE),
@@ -541,7 +541,7 @@ def plate_normal_drag_coefficient(aspect_ratio: ArrayLike) -> FloatArray:
     References
     ----------
     White, *Fluid Mechanics*, table 7.3; Hoerner, *Fluid-Dynamic Drag* (1965) ch. 3
-    (from memory, REFERENCES.md §2).
+    (from memory, [WHITE-FM], [HOERNER-1965]).
     """
     aspect = np.asarray(aspect_ratio, dtype=float)
     aspect = np.maximum(aspect, 1.0 / aspect)
@@ -570,7 +570,7 @@ def cylinder_side_on_drag_coefficient(length_to_diameter: ArrayLike) -> FloatArr
     References
     ----------
     White, *Fluid Mechanics*, table 7.3; Hoerner, *Fluid-Dynamic Drag* (1965) ch. 3
-    (from memory, REFERENCES.md §2).
+    (from memory, [WHITE-FM], [HOERNER-1965]).
     """
     ratios, cds = _table("cylinder_side_")
     inverse = 1.0 / ratios  # 1/inf = 0: the infinite cylinder
@@ -602,7 +602,7 @@ def cylinder_end_on_drag_coefficient(length_to_diameter: ArrayLike) -> FloatArra
     References
     ----------
     White, *Fluid Mechanics*, table 7.3; Hoerner, *Fluid-Dynamic Drag* (1965) ch. 3
-    (from memory, REFERENCES.md §2).
+    (from memory, [WHITE-FM], [HOERNER-1965]).
     """
     ratios, cds = _table("cylinder_end_")
     disk = CD_TABLE["disk_normal"]
@@ -626,7 +626,7 @@ def drag_bounds(shape: str, *, drag_crisis: bool = False, **dimensions: ArrayLik
       for the object library fixes (drag uses the outer diameter).
     - sphere: ``sphere`` 0.47 x pi D^2 / 4 for both bounds. With ``drag_crisis=True`` the
       minimum uses ``sphere_supercritical`` 0.10, the low end of the 0.1-0.2 a smooth sphere
-      reaches past Re of about 2e5-4e5 (REFERENCES.md §2). It is off by default: the crisis
+      reaches past Re of about 2e5-4e5 ([HOERNER-1965]). It is off by default: the crisis
       needs both a smooth ball and a large Re (a 50 mm ball reaches Re = 2e5 only above about
       60 m/s), which dropped objects on site rarely have.
     - box: the table has two C_d for a sharp-edged block, ``cube_face`` 1.05 and ``cube_edge``
@@ -642,7 +642,7 @@ def drag_bounds(shape: str, *, drag_crisis: bool = False, **dimensions: ArrayLik
 
     Tumbling (``drag_area_typical``): 1.05 x the mean projected area (S/4, Cauchy [3]; for an
     irregular body 0.8 x the bounding box's S/4), the middle of the (1.0-1.1) S/4 of
-    REFERENCES.md §2, derived from Ganser [4]; clamped between the two bounds, which for a
+    [WHITE-FM], [HOERNER-1965], derived from Ganser [4]; clamped between the two bounds, which for a
     sphere makes it 0.47 pi D^2 / 4.
 
     ``glides`` is True for flat bodies: box, plate and irregular when the smallest edge is
@@ -676,7 +676,7 @@ def drag_bounds(shape: str, *, drag_crisis: bool = False, **dimensions: ArrayLik
     -----
     The C_d values hold for Re above about 1e4, where sharp-edged bodies have a C_d nearly
     independent of Re; the orientation is the big uncertainty (a factor 1.5-2 on C_d A,
-    REFERENCES.md §2). Size exclusion zones on the envelope: ``drag_area_min`` for the impact
+    [WHITE-FM]). Size exclusion zones on the envelope: ``drag_area_min`` for the impact
     energy, ``drag_area_max`` for the drift.
 
     References
