@@ -411,8 +411,40 @@ def parse_quantity(value: str | float | int, kind: str, field: str) -> float:
 _CONVERSIONS: dict[tuple[str, int], tuple[float, float]] = {}
 
 
+#: pint's factors for ft, ft² and lb, one unit in the last place off the exact definitions
+#: (it builds them from the inch and the grain); the fast path uses them so that it returns the
+#: very float pint would.
+_PINT_FOOT, _PINT_SQUARE_FOOT, _PINT_POUND = (
+    0.30479999999999996,
+    0.09290303999999999,
+    0.4535923700000001,
+)
+#: Plain spellings read without pint (pint's registry takes ~0.3 s to build): SI units per unit,
+#: by kind, keyed by the text :func:`_normalise_unit` gives. The factors are the definitions
+#: (NIST SP 811 (2008), Appendix B; SI prefixes) as pint computes them, and a test checks every
+#: entry against pint to the bit. Any other spelling goes to pint.
+_PLAIN_UNITS: dict[str, dict[str, float]] = {
+    "length": {"m": 1.0, "cm": 0.01, "mm": 0.001, "km": 1000.0, "ft": _PINT_FOOT, "in": INCH},
+    "mass": {"kg": 1.0, "g": 0.001, "lb": _PINT_POUND, "lbs": _PINT_POUND, "t": 1000.0},
+    "speed": {"m/s": 1.0, "km/h": 1 / 3.6, "kph": 1 / 3.6, "mph": MILE_PER_HOUR,
+              "kn": 1852 / 3600, "knot": 1852 / 3600, "knots": 1852 / 3600},
+    "area": {"m**2": 1.0, "m**(2)": 1.0, "cm**2": 1e-4, "cm**(2)": 1e-4, "mm**2": 1e-6,
+             "mm**(2)": 1e-6, "ft**2": _PINT_SQUARE_FOOT,
+             "ft**(2)": _PINT_SQUARE_FOOT},
+    "angle": {"deg": 1.0, "degree": 1.0, "degrees": 1.0},
+    "fraction": {"%": 0.01, "percent": 0.01},
+    "pressure": {"Pa": 1.0, "hPa": 100.0, "kPa": 1000.0},
+    "density": {"kg/m**3": 1.0, "kg/m**(3)": 1.0},
+    "time": {"s": 1.0, "min": 60.0, "h": 3600.0},
+    "energy": {"J": 1.0},
+}  # fmt: skip
+
+
 def _convert(number: float, unit_text: str, raw: str, field: str, spec: Kind) -> float:
     """Convert ``number`` in the pint expression ``unit_text`` to the kind's SI unit."""
+    scale = _PLAIN_UNITS_BY_SPEC.get(id(spec), {}).get(unit_text)
+    if scale is not None and math.isfinite(number * scale):
+        return number * scale
     cached = _CONVERSIONS.get((unit_text, id(spec)))
     if cached is not None:
         result = cached[1] + cached[0] * number
@@ -448,6 +480,9 @@ def _convert(number: float, unit_text: str, raw: str, field: str, spec: Kind) ->
         one = float(registry.Quantity(1.0, units).to(spec.si_unit).magnitude)
         _CONVERSIONS[(unit_text, id(spec))] = (one - zero, zero)
     return result
+
+
+_PLAIN_UNITS_BY_SPEC = {id(KINDS[kind]): units for kind, units in _PLAIN_UNITS.items()}
 
 
 # --- Display -------------------------------------------------------------------------------------

@@ -19,6 +19,7 @@ import pytest
 
 from dropcalc.errors import InputError
 from dropcalc.units import (
+    _PLAIN_UNITS,
     KINDS,
     format_quantity,
     parse_quantity,
@@ -354,6 +355,20 @@ def test_registry_is_created_once() -> None:
     assert unit_registry() is unit_registry()
 
 
+@pytest.mark.parametrize(
+    ("kind", "unit"), [(kind, unit) for kind, table in _PLAIN_UNITS.items() for unit in table]
+)
+def test_plain_spelling_fast_path_gives_pints_value_to_the_bit(kind: str, unit: str) -> None:
+    # The fast path (no pint) must return exactly what pint returns for the same text.
+    registry = unit_registry()
+    units = registry.parse_units(unit)
+    spec = KINDS[kind]
+    assert spec.allowed_units is None or str(units) in spec.allowed_units
+    for number in (1.0, 0.3, 2.0, 12.5, 17.5, 25.0, 1e-3, 123456.789, 7.0, 1e300):
+        expected = float(registry.Quantity(number, units).to(spec.si_unit).magnitude)
+        assert _PLAIN_UNITS[kind][unit] * number == expected, (unit, number)
+
+
 def test_import_and_display_do_not_import_pint() -> None:
     code = (
         "import sys\n"
@@ -362,8 +377,12 @@ def test_import_and_display_do_not_import_pint() -> None:
         "u.format_quantity(12.3, 'length', 'imperial')\n"
         "u.parse_quantity('12', 'length', '--height')\n"
         "assert 'pint' not in sys.modules, 'display or bare number'\n"
-        "u.parse_quantity('12 ft', 'length', '--height')\n"
-        "assert 'pint' in sys.modules, 'pint used on first unit'\n"
+        "for text, kind in [('2 m', 'length'), ('15 deg', 'angle'), ('25 mph', 'speed'),\n"
+        "                   ('12 lb', 'mass'), ('35°', 'angle'), ('3 m²', 'area')]:\n"
+        "    u.parse_quantity(text, kind, '--field')\n"
+        "assert 'pint' not in sys.modules, 'plain spelling'\n"
+        "u.parse_quantity('12 furlong', 'length', '--height')\n"
+        "assert 'pint' in sys.modules, 'pint used on first unit the fast path cannot read'\n"
     )
     result = subprocess.run(
         [sys.executable, "-c", code], cwd=REPO, capture_output=True, text=True, timeout=60
