@@ -26,3 +26,21 @@ def test_engine_benchmark_runs_and_agrees_with_reference():
     assert result["reference_cases"] == 20
     # Agreement with scipy's DOP853 at rtol 1e-10 (benchmarks/cases.py).
     assert 0.0 <= result["max_rel_error"] < 1e-4
+
+
+COMMANDS = Path(__file__).parents[1] / "benchmarks" / "commands.py"
+
+
+def test_command_benchmark_runs():
+    completed = subprocess.run(
+        [sys.executable, str(COMMANDS), "--repeat", "1", "--only", "fall", "--batch-rows", "5",
+         "--json"],
+        capture_output=True,
+        text=True,
+        timeout=120,
+        check=False,
+    )  # fmt: skip
+    assert completed.returncode == 0, completed.stderr
+    result = json.loads(completed.stdout)
+    assert result["fall"]["median_s"] > 0.0
+    assert len(result["fall"]["times_s"]) == 1
