@@ -854,19 +854,19 @@ def report(
     import tempfile
 
     try:
+        from dropcalc.analysis.job import run_job
         from dropcalc.io.scenario import load_scenario
-        from dropcalc.report.build import build_results, summary_json
+        from dropcalc.report.build import summary_json
 
         if output.suffix.lower() != ".pdf":
             raise InputError(f"-o must name a .pdf file; got {output.name}")
-        loaded = load_scenario(scenario)
+        job = run_job(load_scenario(scenario), _progress(as_json))
         with tempfile.TemporaryDirectory(prefix="dropcalc-figures-") as folder:
-            results = build_results(loaded, Path(folder), _progress(as_json))
-            pages = _write_pdf(results, output)
+            pages = _write_pdf(job, Path(folder), output)
     except DropcalcError as exc:
         _fail(str(exc))
         return
-    summary = summary_json(results, output)
+    summary = summary_json(job, output)
     summary["pages"] = pages
     if as_json:
         typer.echo(json.dumps(summary, indent=2, allow_nan=False))
@@ -874,10 +874,12 @@ def report(
         typer.echo(_report_lines(summary))
 
 
-def _write_pdf(results: Any, output: Path) -> int:
+def _write_pdf(job: Any, figure_dir: Path, output: Path) -> int:
+    """Draw the job's figures into ``figure_dir`` and write its PDF report; the page count."""
+    from dropcalc.report.build import build_report
     from dropcalc.report.pdf import write_report
 
-    return write_report(results.report, output)
+    return write_report(build_report(job, figure_dir), output)
 
 
 def _report_lines(summary: dict[str, Any]) -> str:
@@ -910,9 +912,10 @@ def demo(
     import shutil
 
     try:
+        from dropcalc.analysis.job import run_job
         from dropcalc.io.atomic import write_atomic, write_rows
         from dropcalc.io.scenario import load_scenario
-        from dropcalc.report.build import build_results, summary_json
+        from dropcalc.report.build import summary_json
         from dropcalc.resources import data_path
 
         source = data_path("templates") / "demo"
@@ -920,21 +923,21 @@ def demo(
         out.mkdir(parents=True, exist_ok=True)
         for name in ("scenario.toml", "items.csv"):
             write_atomic(out / name, lambda p, n=name: shutil.copyfile(source / n, p))
-        loaded = load_scenario(out / "scenario.toml")
-        results = build_results(loaded, out / "figures", _progress(as_json))
+        job = run_job(load_scenario(out / "scenario.toml"), _progress(as_json))
         pdf = out / "report.pdf"
-        pages = _write_pdf(results, pdf)
-        write_rows(out / "objects.csv", results.rows)
-        summary = summary_json(results, pdf)
+        pages = _write_pdf(job, out / "figures", pdf)
+        write_rows(out / "objects.csv", job.object_rows)
+        summary = summary_json(job, pdf)
         summary["pages"] = pages
         files = {"pdf": str(pdf), "objects_csv": str(out / "objects.csv")}
-        for index, data in enumerate(results.geojson, start=1):
+        for index, area in enumerate(job.work_areas, start=1):
+            data = area.geojson
             if data is not None:
                 target = out / f"exclusion-area-{index}.geojson"
                 text = json.dumps(data, indent=1)
                 write_atomic(target, lambda p, t=text: p.write_text(t, encoding="utf-8"))
                 files[f"geojson_{index}"] = str(target)
-        full = {"summary": summary, "objects": results.rows}
+        full = {"summary": summary, "objects": job.object_rows}
         text = json.dumps(full, indent=2, allow_nan=False)
         write_atomic(out / "results.json", lambda p: p.write_text(text, encoding="utf-8"))
         files["results_json"] = str(out / "results.json")
