@@ -34,6 +34,7 @@ from dataclasses import dataclass
 from typing import TYPE_CHECKING, Any, Literal
 
 from dropcalc.errors import InputError, shorten
+from dropcalc.model.limits import MAX_QUANTITY_CHARACTERS
 
 if TYPE_CHECKING:  # pragma: no cover - typing only, never imported at run time
     import pint
@@ -248,6 +249,18 @@ _REWRITES: tuple[tuple[re.Pattern[str], str | Callable[[re.Match[str]], str]], .
 _TEMPERATURE_LETTERS = {"C": "degC", "c": "degC", "F": "degF", "f": "degF"}
 
 
+# The unit part a user may type, checked before any unit parser sees it: unit words, products and
+# quotients, parentheses and one single-digit exponent per word or bracket ("m**3", "s⁻²",
+# "m2"). No number factors and no exponent towers ("kg*9**9**9" would make pint compute for
+# hours). Possessive quantifiers keep the check linear in the length.
+_LETTER = r"(?:[^\W\d_⁰¹²³⁴⁵⁶⁷⁸⁹]|[°˚%])"
+_EXPONENT = (
+    r"(?:\s*+(?:\*\*|\^)\s*+(?:[+\-−]?\d|\(\s*+[+\-−]?\d\s*+\))(?![\d.,eE])|⁻?[⁰¹²³⁴⁵⁶⁷⁸⁹])?+"
+)
+_WORD = rf"{_LETTER}(?:{_LETTER}|\.|\d(?={_LETTER}))*+\d?+"
+_UNIT_TEXT_RE = re.compile(rf"(?:\s*+(?:{_WORD}{_EXPONENT}|[*/·⋅∙×]|\(|\){_EXPONENT}))*+\s*+")
+
+
 def _kind(kind: str) -> Kind:
     try:
         return KINDS[kind]
@@ -394,10 +407,20 @@ def parse_quantity(value: str | float | int, kind: str, field: str) -> float:
     raw = value.strip()
     if not raw:
         raise InputError(f"{field}: no value given; expected {spec.noun} (e.g. {_examples(spec)})")
+    if len(raw) > MAX_QUANTITY_CHARACTERS:
+        raise InputError(
+            f'{field}: "{_show(raw)}" is longer than {MAX_QUANTITY_CHARACTERS} characters; '
+            f"expected {spec.noun} (e.g. {_examples(spec)})"
+        )
     match = _NUMBER_RE.match(raw.replace("−", "-"))
     if match is None:
         raise InputError(
             f'{field}: could not read "{_show(raw)}" as {spec.noun} (e.g. {_examples(spec)})'
+        )
+    if not _UNIT_TEXT_RE.fullmatch(match["unit"]):
+        raise InputError(
+            f'{field}: could not read "{_show(raw)}" as {spec.noun} (e.g. {_examples(spec)}); '
+            "after the number only unit names, * and / and one-digit powers are read"
         )
     number = _read_number(match["number"], raw, field, spec)
     unit_text = match["unit"]

@@ -27,3 +27,13 @@ CONTACT_AREA_RANGE = (1e-8, 10.0)
 #: a site's drop zone is measured in metres to tens of metres; an object that the wind takes
 #: beyond a kilometre is windborne debris, not a drop the zone can bound.
 CARRIED_AWAY_DISTANCE = 1000.0
+
+
+# --- file and text sizes ---------------------------------------------------------------------
+# Hostile or careless input (a pasted expression, a drawing export, a special file) is refused
+# before any work, in one line naming the key, the line and the limit. Documented for users in
+# docs/limits.md.
+
+#: Longest quantity typed in a field or cell, number and unit together [characters]: the
+#: longest sensible spelling ("101.325 kilopascal", "1.225 kilogram / meter ** 3") is 30.
+MAX_QUANTITY_CHARACTERS = 80
