@@ -17,7 +17,13 @@ from typer.testing import CliRunner
 
 from dropcalc.cli import app
 from dropcalc.errors import InputError
-from dropcalc.model.policy import DEFAULT_RULES, ControlRule, load_policy, suggest_control
+from dropcalc.model.policy import (
+    DEFAULT_RULES,
+    ControlRule,
+    load_policy,
+    suggest_control,
+    suggest_controls,
+)
 
 runner = CliRunner()
 
@@ -29,7 +35,7 @@ def write_policy(folder: Path, text: str, name: str = "policy.toml") -> Path:
 
 
 GOOD = """\
-# A site's own rules, first match wins.
+# A site's own rules; every rule that matches applies.
 [[rule]]
 control = "secure sheets"
 glides = true
@@ -93,22 +99,38 @@ def test_load_policy_accepts_a_mass_in_kg_and_a_bare_number(tmp_path):
     assert rule.energy_at_least == pytest.approx(30.0, rel=1e-12)
 
 
-def test_first_matching_rule_wins(tmp_path):
+def test_every_matching_rule_applies(tmp_path):
     rules = load_policy(write_policy(tmp_path, GOOD))
-    # A gliding sheet with 500 J matches rules 1 and 2: the first is taken.
-    assert suggest_control(rules, 500.0, None, 30.0, True) == "secure sheets"
-    # 150 J, not gliding: rule 2 before the mass and level rules.
-    assert suggest_control(rules, 150.0, None, 30.0, False) == "exclusion zone"
-    # 60 J, 3 kg (> 5 lb = 2.27 kg): the mass rule comes before the 49 J level.
-    assert suggest_control(rules, 60.0, None, 3.0, False) == rules[2].control
-    # 60 J, 1 kg, 30 J/cm^2 = 3e5 J/m^2: the per-area rule before the 49 J level.
-    assert suggest_control(rules, 60.0, 3.0e5, 1.0, False) == "edged item: netting"
+    c = [r.control for r in rules]
+    # A gliding 30 kg sheet with 500 J matches the glide, 100 J, mass, 49 J and 79 J rules:
+    # it gets every one of them, in the order of the file (not just the first).
+    assert suggest_controls(rules, 500.0, None, 30.0, True) == (c[0], c[1], c[2], c[4], c[5])
+    # 150 J, 1 kg, not gliding: the 100 J, 49 J and 79 J rules.
+    assert suggest_controls(rules, 150.0, None, 1.0, False) == (c[1], c[4], c[5])
+    # 60 J, 3 kg (> 5 lb = 2.27 kg): the mass rule and the 49 J level.
+    assert suggest_controls(rules, 60.0, None, 3.0, False) == (c[2], c[4])
+    # 60 J, 1 kg, 30 J/cm^2 = 3e5 J/m^2: the per-area rule and the 49 J level.
+    assert suggest_controls(rules, 60.0, 3.0e5, 1.0, False) == (c[3], c[4])
     # 60 J, 1 kg, no contact area: the per-area rule does not match; the 49 J rule does.
-    assert suggest_control(rules, 60.0, None, 1.0, False) == "helmet test energy: toe boards"
+    assert suggest_controls(rules, 60.0, None, 1.0, False) == (c[4],)
     # Thresholds are "at least": exactly 100 J matches the 100 J rule.
-    assert suggest_control(rules, 100.0, None, 1.0, False) == "exclusion zone"
-    # Nothing else matches: the unconditional last rule.
-    assert suggest_control(rules, 1.0, None, 0.1, False) == "housekeeping"
+    assert c[1] in suggest_controls(rules, 100.0, None, 1.0, False)
+    # Nothing with conditions matches: the unconditional rule, and only then.
+    assert suggest_controls(rules, 1.0, None, 0.1, False) == ("housekeeping",)
+    assert "housekeeping" not in suggest_controls(rules, 60.0, None, 1.0, False)
+    # One cell for tables: the controls joined in order.
+    assert suggest_control(rules, 60.0, None, 3.0, False) == f"{c[2]} | {c[4]}"
+
+
+def test_heavy_sheet_and_glass_pane_get_prevent_the_drop_too():
+    # Issue 13: the first-match rule gave a 12 kg plywood sheet striking with 1660 J and a
+    # 16 kg glass pane with 2220 J only "secure against wind". Both glide AND exceed the
+    # 100 J of EN 14052 [EN14052-2012]: they must get both controls.
+    for energy, mass in ((1660.0, 12.0), (2220.0, 16.0)):
+        controls = suggest_controls(DEFAULT_RULES, energy, None, mass, True)
+        assert any(c.startswith("secure against wind") for c in controls), controls
+        assert any(c.startswith("prevent the drop") for c in controls), controls
+        assert DEFAULT_RULES[-1].control not in controls
 
 
 def test_glides_condition_true_and_false():

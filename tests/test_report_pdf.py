@@ -167,7 +167,7 @@ def make_data(tmp_path: Path, rows: int = 12, *, figures: bool = True) -> Report
         object_rows=[object_row(i) for i in range(rows)] + [BAD_ROW],
         object_table_height_m=32.0,
         levels=LEVELS,
-        controls=[("item-000 spanner", "tether to the structure"), (ODD_NAME, "net below")],
+        controls=[("item-000 spanner", ("tether to the structure",)), (ODD_NAME, ("net below",))],
         code_rules=[("Rule of thumb: one third of the height", "10.7 m", "common practice")],
         figures=figure_paths,
         texts={"cautions": CAUTIONS, "method": METHOD, "signoff": "Checked against the plan."},

@@ -132,8 +132,9 @@ class JobResult:
         ``zone_radius_m`` (its own radius in the widest work area).
     object_table_height_m : float
         The highest work edge. [m]
-    controls : tuple of (str, str)
-        (item, control) for the items whose suggested control is more than the default rule's.
+    controls : tuple of (str, tuple of str)
+        (item, controls) for every item of the object table, in its order: every control rule
+        that applies to the item (:func:`dropcalc.model.policy.suggest_controls`).
     warnings : tuple of str
         Glide and windborne warnings, in words.
     wind_outward : bool
@@ -152,7 +153,7 @@ class JobResult:
     work_areas: tuple[WorkAreaJob, ...]
     object_rows: list[dict[str, Any]]
     object_table_height_m: float
-    controls: tuple[tuple[str, str], ...]
+    controls: tuple[tuple[str, tuple[str, ...]], ...]
     warnings: tuple[str, ...]
     wind_outward: bool
     wind_toward_deg: float | None
@@ -239,12 +240,7 @@ def run_job(scenario: Scenario, progress: Callable[[int, int], None] | None = No
     for row in rows:
         label = row.get("label") or row.get("name")
         row["zone_radius_m"] = max((a.object_radii.get(label, 0.0) for a in areas), default=None)
-    default_control = scenario.rules[-1].control if scenario.rules else ""
-    controls = tuple(
-        (str(row.get("label") or row.get("id")), str(row["control"]))
-        for row in rows
-        if row.get("control") and row["control"] != default_control
-    )
+    controls = tuple((row_name(row), _row_controls(row, scenario.rules)) for row in rows)
     return JobResult(
         scenario=scenario,
         objects=objects,
@@ -320,6 +316,25 @@ def _object_rows(scenario: Scenario) -> list[dict[str, Any]]:
             if best[index] is None or _energy(row) > _energy(best[index]):
                 best[index] = row
     return [row for row in best if row is not None]
+
+
+def row_name(row: dict[str, Any]) -> str:
+    """The name of an item in tables: its label, else its library id, else its row number."""
+    return str(row.get("label") or row.get("id") or f"row {row.get('row')}")
+
+
+def _row_controls(row: dict[str, Any], rules: Any) -> tuple[str, ...]:
+    """Every control rule that applies to one object row (see :mod:`dropcalc.model.policy`)."""
+    from dropcalc.model.policy import DEFAULT_RULES, suggest_controls
+
+    epa = row.get("energy_per_contact_area_j_cm2")
+    return suggest_controls(
+        rules or DEFAULT_RULES,
+        max(_energy(row), 0.0),
+        None if epa is None else float(epa) * 1e4,
+        float(row.get("mass_kg") or 0.0),
+        bool(row.get("glides")),
+    )
 
 
 def _energy(row: dict[str, Any] | None) -> float:

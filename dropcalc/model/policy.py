@@ -1,4 +1,4 @@
-"""Suggested controls: a documented, user-configurable rule list (first matching rule wins).
+"""Suggested controls: a documented, user-configurable rule list (every matching rule applies).
 
 The default rules tie the suggestion to the reference levels of
 :mod:`dropcalc.model.reference_levels`; the hierarchy of controls behind them (prevent the fall,
@@ -18,7 +18,10 @@ work-at-height guidance, no single source. A site replaces the rules with its ow
 
 A rule matches when every condition it gives holds: ``energy_at_least`` (impact energy at the
 smallest drag area), ``energy_per_area_at_least``, ``mass_at_least`` and ``glides`` (true for
-sheets and plates that can fly in wind).
+sheets and plates that can fly in wind). An item gets the control of EVERY rule it matches, in
+the order of the file: a 16 kg glass pane needs securing against wind and preventing the drop,
+not one of the two. A rule without conditions is the default: it applies only to items that no
+rule with conditions matches.
 """
 
 from __future__ import annotations
@@ -72,6 +75,16 @@ class ControlRule:
             return False
         return self.glides is None or self.glides == glides
 
+    @property
+    def unconditional(self) -> bool:
+        """True for a default rule (no condition given)."""
+        return (
+            self.energy_at_least is None
+            and self.energy_per_area_at_least is None
+            and self.mass_at_least is None
+            and self.glides is None
+        )
+
 
 _EN14052 = REFERENCE_LEVELS["helmet-en14052-crown"]
 _PENETRATION = REFERENCE_LEVELS["helmet-penetration"]
@@ -87,17 +100,18 @@ DEFAULT_RULES: tuple[ControlRule, ...] = (
     ),
     ControlRule(
         "prevent the drop: tether to the structure or contain, and exclude people below "
-        f"(above {_EN14052.value:g} J, the EN 14052 crown test energy)",
+        f"(at or above {_EN14052.value:g} J, the EN 14052 crown test energy)",
         energy_at_least=_EN14052.value,
     ),
     ControlRule(
-        "tether or contain; collective protection below (toe boards, netting, brick guards, "
-        f"covered walkway) (at or above {_PENETRATION.value:g} J, helmet penetration test energy)",
+        "tether or contain, with collective protection below: toe boards, netting, brick "
+        f"guards or a covered walkway (at or above {_PENETRATION.value:g} J, the helmet "
+        "penetration test energy)",
         energy_at_least=_PENETRATION.value,
     ),
     ControlRule(
-        "tether or contain; collective protection below (edged or pointed item at or above "
-        f"{_SKIN.value / 1e4:g} J/cm², Bir et al. 2012)",
+        "edged or pointed: tether or contain, and net or cover below (at or above "
+        f"{_SKIN.value / 1e4:g} J/cm², skin penetration risk, Bir et al. 2012)",
         energy_per_area_at_least=_SKIN.value,
     ),
     ControlRule("collective protection (toe boards, netting) and helmets below; keep tidy"),
@@ -108,6 +122,44 @@ DEFAULT_RULES: tuple[ControlRule, ...] = (
 WRIST_TETHER_LIMIT = 2.3
 
 
+#: Joins several controls in one table cell (CSV, XLSX, JSON ``control``).
+CONTROL_SEPARATOR = " | "
+
+
+def suggest_controls(
+    rules: Sequence[ControlRule],
+    energy: float,
+    energy_per_area: float | None,
+    mass: float,
+    glides: bool,
+) -> tuple[str, ...]:
+    """Every control that applies to one item, in the order of the rules.
+
+    The controls of all rules with conditions that match; when none matches, those of the
+    unconditional (default) rules. Empty when nothing applies.
+
+    Parameters
+    ----------
+    rules : sequence of ControlRule
+    energy : float
+        Impact energy at the smallest drag area. [J]
+    energy_per_area : float or None
+        Impact energy per contact area, None without a contact area. [J/m^2]
+    mass : float
+        [kg]
+    glides : bool
+        Whether the item is a sheet or plate that can fly in wind.
+    """
+    matched = [
+        rule.control
+        for rule in rules
+        if not rule.unconditional and rule.matches(energy, energy_per_area, mass, glides)
+    ]
+    if not matched:
+        matched = [rule.control for rule in rules if rule.unconditional]
+    return tuple(dict.fromkeys(matched))
+
+
 def suggest_control(
     rules: Sequence[ControlRule],
     energy: float,
@@ -115,11 +167,8 @@ def suggest_control(
     mass: float,
     glides: bool,
 ) -> str:
-    """The control of the first rule that matches, or "" if none does."""
-    for rule in rules:
-        if rule.matches(energy, energy_per_area, mass, glides):
-            return rule.control
-    return ""
+    """:func:`suggest_controls` joined into one cell with :data:`CONTROL_SEPARATOR`."""
+    return CONTROL_SEPARATOR.join(suggest_controls(rules, energy, energy_per_area, mass, glides))
 
 
 def _threshold(value: object, kind: str, where: str) -> float | None:

@@ -166,7 +166,11 @@ def render_fall(result: FallResult, system: str = "si") -> str:
 
 
 def _short_control(text: str) -> str:
-    return text.split(":")[0].split(";")[0].split(" (")[0]
+    """The first words of each control in a cell ("secure against wind + prevent the drop")."""
+    from dropcalc.model.policy import CONTROL_SEPARATOR
+
+    parts = [c.split(":")[0].split(";")[0].split(" (")[0] for c in text.split(CONTROL_SEPARATOR)]
+    return " + ".join(dict.fromkeys(p for p in parts if p))
 
 
 def render_batch(

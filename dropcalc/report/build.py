@@ -303,5 +303,5 @@ def summary_json(job: JobResult, pdf: Path) -> dict[str, Any]:
             job.object_rows[0].get("impact_energy_max_j") if job.object_rows else None
         ),
         "objects": len(job.object_rows),
-        "controls": [{"item": item, "control": control} for item, control in job.controls],
+        "controls": [{"item": item, "controls": list(controls)} for item, controls in job.controls],
     }

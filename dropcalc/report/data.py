@@ -101,8 +101,8 @@ class ReportData:
         Release height used for the object table (the highest work edge). [m]
     levels : list of (key, label, value, unit)
         Reference levels shown (unit "J" or "J/cm²").
-    controls : list of (item, control)
-        The short list of items that need tethering, containment or cover.
+    controls : list of (item, controls)
+        Every item (highest energy first) with every control rule that applies to it.
     code_rules : list of (rule, distance_text, source)
         Distances from code rules, shown beside the computed zone for comparison.
     figures : dict of str -> Path
@@ -129,7 +129,7 @@ class ReportData:
     object_rows: list[dict[str, Any]]
     object_table_height_m: float
     levels: list[tuple[str, str, float, str]]
-    controls: list[tuple[str, str]]
+    controls: list[tuple[str, tuple[str, ...]]]
     code_rules: list[tuple[str, str, str]]
     figures: dict[str, Path] = field(default_factory=dict)
     texts: dict[str, str] = field(default_factory=dict)

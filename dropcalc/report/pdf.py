@@ -539,30 +539,43 @@ def _highest_energy(data: ReportData, styles: dict[str, ParagraphStyle]) -> list
     ]
 
 
-#: Items listed on page 1 under "Items that need a control" (highest energy first).
-SHORT_LIST = 6
+def control_groups(
+    controls: list[tuple[str, tuple[str, ...]]],
+) -> list[tuple[list[str], tuple[str, ...]]]:
+    """Items grouped by the set of controls they need, in order of their first item.
+
+    ``controls`` is highest energy first, so the groups are too. Every item is in one group,
+    and each group carries every control of its items: nothing is left to another table.
+    """
+    groups: dict[tuple[str, ...], list[str]] = {}
+    for item, item_controls in controls:
+        groups.setdefault(tuple(item_controls), []).append(item)
+    return [(items, group) for group, items in groups.items()]
 
 
 def _controls(data: ReportData, styles: dict[str, ParagraphStyle]) -> list[Flowable]:
-    out: list[Flowable] = [Paragraph("Items that need a control", styles["h3"])]
-    if not data.controls:
+    out: list[Flowable] = [Paragraph("Controls for every item", styles["h3"])]
+    if not any(c for _, c in data.controls):
         out.append(
             Paragraph("No item on the list met a rule of the control policy.", styles["para"])
         )
         return out
-    cells = [[Paragraph("item", styles["head"]), Paragraph("control", styles["head"])]]
-    cells += [
-        [Paragraph(_text(item), styles["cell"]), Paragraph(_text(control), styles["cell"])]
-        for item, control in data.controls[:SHORT_LIST]
-    ]
-    if len(data.controls) > SHORT_LIST:
-        more = len(data.controls) - SHORT_LIST
-        cells.append(
-            [
-                Paragraph(f"… and {more} more", styles["cell"]),
-                Paragraph("see the control column of the object table", styles["cell"]),
-            ]
+    out.append(
+        Paragraph(
+            "Each item gets every rule of the control policy that applies to it, in order of "
+            "impact energy, hardest-hitting first; items that need the same controls share a row.",
+            styles["para"],
         )
+    )
+    cells = [[Paragraph("items", styles["head"]), Paragraph("controls", styles["head"])]]
+    for items, group in control_groups(data.controls):
+        names = "<br/>".join(_text(item) for item in items)
+        text = (
+            "<br/>".join(f"• {_text(c)}" for c in group)
+            if group
+            else "no rule of the policy applies"
+        )
+        cells.append([Paragraph(names, styles["cell"]), Paragraph(text, styles["cell"])])
     table = Table(cells, colWidths=[62 * mm, FRAME_WIDTH - 62 * mm], repeatRows=1, hAlign="LEFT")
     table.setStyle(TableStyle(_grid_style()))
     out.append(table)
