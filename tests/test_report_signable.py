@@ -105,3 +105,48 @@ def test_glass_and_heavy_sheet_get_prevent_the_drop(many: dict[str, Any]) -> Non
         assert any(c.startswith("prevent the drop") for c in by_item[item]), by_item[item]
         # The default ("everything else") rule is not added to items that matched a rule.
         assert DEFAULT_RULES[-1].control not in by_item[item]
+
+
+#: A breezy day, a plywood sheet and a spanner: the sheet drives the zone.
+SHEET = """\
+[job]
+title = "Sheet"
+
+[policy]
+precision = 0.2
+
+[wind]
+speed = "8 m/s"
+terrain = "suburban"
+
+[[work_area]]
+name = "Roof"
+  [[work_area.edge]]
+  points = [[0, 0], [10, 0]]
+  height = "12 m"
+
+[[object]]
+id = "plywood-12mm-half-sheet"
+label = "Plywood half sheet"
+[[object]]
+id = "combination-spanner-19mm"
+"""
+
+
+@pytest.fixture(scope="module")
+def sheet(tmp_path_factory: pytest.TempPathFactory) -> dict[str, Any]:
+    summary, pdf = run_report(tmp_path_factory.mktemp("sheet"), SHEET)
+    first = flat(PdfReader(pdf).pages[0].extract_text())
+    return {"summary": summary, "pdf": pdf, "first": first}
+
+
+def test_page_one_says_when_the_driving_object_carries_a_warning(sheet: dict[str, Any]) -> None:
+    (area,) = sheet["summary"]["work_areas"]
+    assert area["driving_object"] == "Plywood half sheet"
+    assert any("glide" in w for w in area["driver_warnings"]), area
+    first = sheet["first"]
+    # Beside the distance: between "Keep ... clear" and the facts below it.
+    keep = first.index("Keep ")
+    beside = first[keep : first.index("Worst case", keep)]
+    assert "Warning: the distance is set by Plywood half sheet" in beside, beside
+    assert "glide" in beside

@@ -66,6 +66,9 @@ class WorkAreaJob:
     geojson : dict or None
         The zone as a GeoJSON feature collection (WGS84) when the scenario gives the site's
         origin; None otherwise.
+    driver_warnings : tuple of str
+        The warnings the driving object carries in the object table (a sheet that glides, an
+        item carried away, anything outside the model): the distance may be too small for it.
     """
 
     name: str
@@ -84,6 +87,7 @@ class WorkAreaJob:
     standard_error_m: float
     object_radii: Mapping[str, float]
     geojson: dict[str, Any] | None
+    driver_warnings: tuple[str, ...] = ()
 
 
 @dataclass(frozen=True)
@@ -241,6 +245,7 @@ def run_job(scenario: Scenario, progress: Callable[[int, int], None] | None = No
         label = row.get("label") or row.get("name")
         row["zone_radius_m"] = max((a.object_radii.get(label, 0.0) for a in areas), default=None)
     controls = tuple((row_name(row), _row_controls(row, scenario.rules)) for row in rows)
+    areas = [replace(a, driver_warnings=_row_warnings(rows, a.driving_object)) for a in areas]
     return JobResult(
         scenario=scenario,
         objects=objects,
@@ -316,6 +321,15 @@ def _object_rows(scenario: Scenario) -> list[dict[str, Any]]:
             if best[index] is None or _energy(row) > _energy(best[index]):
                 best[index] = row
     return [row for row in best if row is not None]
+
+
+def _row_warnings(rows: list[dict[str, Any]], name: str) -> tuple[str, ...]:
+    """The warnings of the object-table row of one object (by label or name)."""
+    for row in rows:
+        if name in (row.get("label"), row.get("name")):
+            text = str(row.get("warnings") or "")
+            return tuple(w.strip() for w in text.split(";") if w.strip())
+    return ()
 
 
 def row_name(row: dict[str, Any]) -> str:

@@ -121,6 +121,7 @@ def build_report(job: JobResult, figure_dir: Path) -> ReportData:
                 scatter_m=area.scatter_m,
                 margin_m=scenario.margin,
                 standard_error_m=area.standard_error_m,
+                driver_warnings=area.driver_warnings,
                 segments=[
                     {
                         "edge": name,
@@ -295,6 +296,7 @@ def summary_json(job: JobResult, pdf: Path) -> dict[str, Any]:
                 "drift_m": a.drift_m,
                 "scatter_m": a.scatter_m,
                 "margin_m": scenario.margin,
+                "driver_warnings": list(a.driver_warnings),
             }
             for a in job.work_areas
         ],

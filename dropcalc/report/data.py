@@ -52,6 +52,9 @@ class WorkAreaResult:
         Object name -> its own radius at the confidence (widest segment). [m]
     plan_png : Path
         The plan drawing (outline, work edges, area, wind, north arrow, scale bar).
+    driver_warnings : tuple of str
+        The warnings the driving object carries in the object table (sheets that glide, items
+        carried away, anything outside the model); page 1 shows them beside the distance.
     """
 
     name: str
@@ -70,6 +73,7 @@ class WorkAreaResult:
     segments: list[dict[str, Any]]
     object_radii: dict[str, float]
     plan_png: Path
+    driver_warnings: tuple[str, ...] = ()
 
 
 @dataclass(frozen=True)

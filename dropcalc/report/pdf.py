@@ -153,6 +153,10 @@ def _styles() -> dict[str, ParagraphStyle]:
             "warning_title", fontName=SANS_BOLD, fontSize=10, leading=13, textColor=CIVIDIS_DARK
         ),
         "warning": style("warning", fontSize=8.5, leading=11.5, leftIndent=12, bulletIndent=2),
+        "driver_warning": style(
+            "driver_warning", fontSize=8.5, leading=11, leftIndent=12, bulletIndent=2,
+            textColor=CIVIDIS_DARK, bulletFontName=SANS_BOLD,
+        ),
     }  # fmt: skip
 
 
@@ -480,6 +484,16 @@ def _work_area_box(
             styles["note"],
         ),
     ]
+    if area.driver_warnings:
+        headline.append(
+            Paragraph(
+                f"<b>Warning:</b> the distance is set by {_text(area.driving_object)}, which "
+                f"carries a warning: {_text('; '.join(area.driver_warnings))}. The computed "
+                "distance may be too small for it; see the warnings below.",
+                styles["driver_warning"],
+                bulletText="!",
+            )
+        )
     plan = _image(area.plan_png, plan_width - 4, 54 * mm)
     right: Flowable = (
         plan if plan is not None else Paragraph("Plan drawing not available.", styles["note"])
