@@ -39,7 +39,12 @@ _KEYS: dict[str, set[str]] = {
         "friction", "rolling", "edge",
     },  # fmt: skip
     "edge": {"name", "points", "height"},
-    "object": {"id", "label", "quantity", "mass", "drag_area", "contact_area"},
+    # An object is one row of a ``dropcalc batch`` list: a library id, or mass with drag_area,
+    # or mass with a shape and its dimensions; height for an item used higher than the edges.
+    "object": {
+        "id", "label", "quantity", "mass", "drag_area", "contact_area", "shape", "length",
+        "width", "depth", "thickness", "diameter", "outer_diameter", "wall_thickness", "height",
+    },
 }  # fmt: skip
 
 
@@ -76,6 +81,18 @@ class Scenario:
     rules: tuple[Any, ...]
     library: Any
     notes: list[str] = field(default_factory=list)
+
+
+class ScenarioError(InputError):
+    """A mistake in a scenario file; ``key_path`` names the key (``work_area[1].edge[1].height``).
+
+    The message is the command line's (file, line, key path, what is wrong); the key path is
+    kept apart so that a page can show the message beside the field the key came from.
+    """
+
+    def __init__(self, message: str, key_path: str) -> None:
+        super().__init__(message)
+        self.key_path = key_path
 
 
 class _Where:
@@ -132,11 +149,11 @@ class _Where:
                 start = hits[0]
         return None if start is None else start + 1
 
-    def error(self, key_path: str, message: str) -> InputError:
-        """An InputError naming the file, the line (when found) and the key path."""
+    def error(self, key_path: str, message: str) -> ScenarioError:
+        """An error naming the file, the line (when found) and the key path."""
         line = self.line_of(key_path)
         at = f"line {line}: " if line else ""
-        return InputError(f"{self.path.name}: {at}{key_path}: {message}")
+        return ScenarioError(f"{self.path.name}: {at}{key_path}: {message}", key_path)
 
 
 def load_scenario(path: Path) -> Scenario:

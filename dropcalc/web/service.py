@@ -1,0 +1,353 @@
+"""What the page's routes do, without the web framework: forms in, plain data and bytes out.
+
+Every computation goes through the scenario loader and the job pipeline, as ``dropcalc
+report`` does: :func:`load_form` writes the form as a scenario file (the same text the page
+offers for download) and loads it; :func:`compute` runs the job and returns what the page
+shows. Uploaded files are read from memory or from a private temporary folder under a fixed
+name; the name the user's file had is only ever shown, never used as a path.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import re
+import tempfile
+import threading
+from collections import OrderedDict
+from collections.abc import Callable, Mapping
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+
+from dropcalc.errors import DropcalcError, InputError, one_line, shorten
+from dropcalc.web.form import (
+    MAX_OBJECTS,
+    OBJECT_FIELDS,
+    check_form,
+    field_of_key,
+    form_to_toml,
+    toml_to_form,
+)
+
+#: File name of the scenario the page writes (in the PDF's footer and the TOML download).
+SCENARIO_NAME = "scenario.toml"
+#: Largest uploaded file. [bytes] A list of a few thousand objects is well under it.
+MAX_UPLOAD_BYTES = 2 * 1024 * 1024
+#: Object-list file types the page reads (the ``dropcalc batch`` formats).
+LIST_SUFFIXES = (".csv", ".xlsx")
+#: Release height used to check an uploaded list's rows before the plan gives one [m]; rows are
+#: checked again, at the real heights, when the job runs.
+LIST_CHECK_HEIGHT = 10.0
+
+
+@dataclass
+class FieldError:
+    """An input error to show beside a field of the form ("" for the form as a whole)."""
+
+    field: str
+    message: str
+
+    def to_json(self) -> dict[str, str]:
+        """``{"field": ..., "message": ...}``."""
+        return {"field": self.field, "message": self.message}
+
+
+class FormError(Exception):
+    """The form cannot be run; ``errors`` say which fields and why."""
+
+    def __init__(self, errors: list[FieldError]) -> None:
+        super().__init__("; ".join(e.message for e in errors))
+        self.errors = errors
+
+
+def field_error(exc: DropcalcError) -> FieldError:
+    """The field and the message of an error raised by :func:`check_form` or the loader.
+
+    The loader's message is the command line's; the scenario file's name and line are left
+    out (the page wrote that file, the user typed into the field).
+    """
+    message = one_line(str(exc))
+    key_path = getattr(exc, "key_path", None)
+    if key_path is not None:
+        shown = re.sub(rf"^{re.escape(SCENARIO_NAME)}: (line \d+: )?", "", message)
+        return FieldError(field_of_key(key_path), shown)
+    head, sep, _ = message.partition(": ")
+    if sep and re.fullmatch(r"[a-z_]+(\.[a-z_0-9]+)*", head):
+        return FieldError(head, message)
+    return FieldError("", message)
+
+
+def load_form(form_data: Any) -> tuple[Any, str]:
+    """Check a form, write it as a scenario file and load that as ``dropcalc report`` would.
+
+    Returns
+    -------
+    (Scenario, str)
+        The loaded scenario and the scenario file's text.
+
+    Raises
+    ------
+    FormError
+        With the field and the command line's message.
+    """
+    from dropcalc.io.scenario import load_scenario
+
+    try:
+        form = check_form(form_data)
+        text = form_to_toml(form)
+        with tempfile.TemporaryDirectory(prefix="dropcalc-page-") as folder:
+            path = Path(folder) / SCENARIO_NAME
+            path.write_text(text, encoding="utf-8")
+            scenario = load_scenario(path)
+    except DropcalcError as exc:
+        raise FormError([field_error(exc)]) from None
+    return scenario, text
+
+
+# --------------------------------------------------------------------------------------------
+# Uploads
+
+
+def _decode_name(name: str | None) -> str:
+    """An uploaded file's name for messages only: its last part, shortened, never a path."""
+    shown = re.split(r"[\\/]", name or "")[-1] or "upload"
+    return shorten(shown, 60)
+
+
+def read_list_bytes(data: bytes, filename: str | None) -> Any:
+    """Read an uploaded CSV/XLSX object list as text cells (a DataFrame).
+
+    The bytes are written to a private temporary folder under a fixed name with the suffix of
+    the (checked) file type, read by :func:`dropcalc.analysis.batch.read_table` and deleted.
+
+    Raises
+    ------
+    InputError
+        Naming the file as the user called it.
+    """
+    from dropcalc.analysis.batch import read_table
+    from dropcalc.errors import require_suffix
+
+    shown = _decode_name(filename)
+    if len(data) > MAX_UPLOAD_BYTES:
+        raise InputError(f"{shown}: larger than the {MAX_UPLOAD_BYTES // 1024 // 1024} MB limit")
+    suffix = require_suffix(shown, LIST_SUFFIXES, "the object list")
+    with tempfile.TemporaryDirectory(prefix="dropcalc-page-") as folder:
+        path = Path(folder) / f"list{suffix}"
+        path.write_bytes(data)
+        try:
+            frame = read_table(path)
+        except InputError as exc:
+            raise InputError(str(exc).replace(str(path), shown)) from None
+    if len(frame) > MAX_OBJECTS:
+        raise InputError(f"{shown}: at most {MAX_OBJECTS} rows; got {len(frame)}")
+    return frame
+
+
+def list_rows(frame: Any) -> tuple[list[dict[str, str]], list[dict[str, Any]]]:
+    """Check a list's rows as ``dropcalc batch`` does; keep the good ones as form objects.
+
+    Returns
+    -------
+    (objects, errors)
+        The good rows as form objects (the cells as typed), and for each bad row
+        ``{"row", "label", "id", "message"}`` with the spreadsheet's row number.
+    """
+    from dropcalc.analysis.batch import BatchSettings, parse_items
+    from dropcalc.io.library import load_library
+
+    items, errors = parse_items(
+        frame, load_library(), BatchSettings(height=LIST_CHECK_HEIGHT), first_row=2
+    )
+    good = {item.row for item in items}
+    objects = []
+    for index, record in enumerate(frame.to_dict("records")):
+        if index + 2 in good:
+            cells = {k: str(v).strip() for k, v in record.items() if k in OBJECT_FIELDS}
+            objects.append({k: cells.get(k, "") for k in OBJECT_FIELDS})
+    return objects, [
+        {"row": e.row, "label": e.label, "id": e.object_id, "message": one_line(e.message)}
+        for e in errors
+    ]
+
+
+def read_scenario_upload(
+    data: bytes, filename: str | None, list_data: bytes | None = None, list_name: str | None = None
+) -> dict[str, Any]:
+    """Read an uploaded scenario file (and the object list it names) into a form.
+
+    Returns
+    -------
+    dict
+        ``{"form": ..., "row_errors": [...], "errors": [...]}``: the form to fill the page
+        with, the list's bad rows (left out), and the loader's errors of the filled form (the
+        page shows them beside their fields).
+
+    Raises
+    ------
+    InputError
+        When the file is not a scenario the page can read at all (not UTF-8, not TOML, a
+        ``rules_file``, an ``objects_file`` whose list was not uploaded with it).
+    """
+    import tomllib
+
+    shown = _decode_name(filename)
+    if len(data) > MAX_UPLOAD_BYTES:
+        raise InputError(f"{shown}: larger than the {MAX_UPLOAD_BYTES // 1024 // 1024} MB limit")
+    try:
+        text = data.decode("utf-8-sig")
+    except UnicodeDecodeError:
+        raise InputError(f"{shown}: not UTF-8 text; save the scenario as UTF-8") from None
+    try:
+        raw = tomllib.loads(text)
+    except tomllib.TOMLDecodeError as exc:
+        raise InputError(f"{shown}: not valid TOML: {exc}") from None
+    rows: list[dict[str, str]] = []
+    row_errors: list[dict[str, Any]] = []
+    if "objects_file" in raw:
+        listed = _decode_name(str(raw["objects_file"]))
+        if list_data is None:
+            raise InputError(
+                f"{shown}: objects_file: the scenario lists its objects in {listed!r}; choose "
+                "that file together with the scenario"
+            )
+        rows, row_errors = list_rows(read_list_bytes(list_data, list_name))
+    elif list_data is not None:
+        rows, row_errors = list_rows(read_list_bytes(list_data, list_name))
+    form = toml_to_form(text, rows, shown)
+    errors: list[dict[str, str]] = []
+    try:
+        load_form(form)
+    except FormError as exc:
+        errors = [e.to_json() for e in exc.errors]
+    return {"form": form, "row_errors": row_errors, "errors": errors}
+
+
+def demo_form() -> dict[str, Any]:
+    """The demo job (``templates/demo``) as a form."""
+    from dropcalc.resources import data_path
+
+    folder = data_path("templates") / "demo"
+    text = (folder / "scenario.toml").read_text(encoding="utf-8")
+    rows, _errors = list_rows(read_list_bytes((folder / "items.csv").read_bytes(), "items.csv"))
+    return toml_to_form(text, rows)
+
+
+# --------------------------------------------------------------------------------------------
+# The object library
+
+
+def library_entries(search: str = "", category: str = "") -> list[dict[str, Any]]:
+    """Library objects matching a search text and a category ("" for any), for the picker.
+
+    Raises
+    ------
+    InputError
+        For an unknown category or an over-long search text.
+    """
+    from dropcalc.io.library import load_library
+
+    if len(search) > 200:
+        raise InputError(f"search: at most 200 characters; got {len(search)}")
+    library = load_library()
+    found = library.search(search) if search.strip() else tuple(library)
+    if category:
+        if category not in library.categories():
+            raise InputError(
+                f"category: unknown category {shorten(repr(category), 40)}; known: "
+                f"{', '.join(library.categories())}"
+            )
+        found = tuple(o for o in found if o.category == category)
+    return [
+        {
+            "id": o.id,
+            "name": o.name,
+            "category": o.category,
+            "mass_kg": o.mass,
+            "drag_area_min_m2": o.drag_area_min,
+            "drag_area_max_m2": o.drag_area_max,
+            "source": o.source,
+            "glides": o.glides,
+        }
+        for o in found
+    ]
+
+
+def library_categories() -> list[str]:
+    """Category ids of the library, in library order."""
+    from dropcalc.io.library import load_library
+
+    return list(load_library().categories())
+
+
+# --------------------------------------------------------------------------------------------
+# A small cache of finished jobs (the only state the server keeps)
+
+
+@dataclass
+class JobCache:
+    """The last few finished jobs by the SHA-256 of their scenario text (least recent out)."""
+
+    size: int = 8
+    _items: OrderedDict[str, Any] = field(default_factory=OrderedDict)
+    _lock: threading.Lock = field(default_factory=threading.Lock)
+
+    def get_or_run(self, text: str, run: Callable[[], Any]) -> Any:
+        """The cached result for this scenario text, or ``run()``'s (then cached)."""
+        key = hashlib.sha256(text.encode("utf-8")).hexdigest()
+        with self._lock:
+            if key in self._items:
+                self._items.move_to_end(key)
+                return self._items[key]
+        result = run()
+        with self._lock:
+            self._items[key] = result
+            while len(self._items) > self.size:
+                self._items.popitem(last=False)
+        return result
+
+
+def form_errors_json(errors: list[FieldError]) -> list[Mapping[str, str]]:
+    """Errors as the page reads them."""
+    return [e.to_json() for e in errors]
+
+
+# --------------------------------------------------------------------------------------------
+# Choices the page offers in its lists
+
+
+def choices() -> dict[str, Any]:
+    """Grounds, terrains, releases, wind kinds and reference levels, with labels."""
+    from dropcalc.model.reference_levels import DEFAULT_LEVEL_KEYS, REFERENCE_LEVELS
+    from dropcalc.physics.release import RELEASE_MODES
+    from dropcalc.physics.scatter import SURFACES
+    from dropcalc.physics.wind import TERRAIN_ALIASES, TERRAIN_CLASSES
+
+    aliases: dict[str, list[str]] = {}
+    for alias, key in TERRAIN_ALIASES.items():
+        aliases.setdefault(key, []).append(alias)
+    return {
+        "grounds": [[key, s.label] for key, s in SURFACES.items()],
+        "terrains": [
+            [key, t.label + (f" ({', '.join(aliases[key])})" if key in aliases else "")]
+            for key, t in TERRAIN_CLASSES.items()
+        ],
+        "terrain_aliases": dict(TERRAIN_ALIASES),
+        "releases": list(RELEASE_MODES),
+        "wind_kinds": [["mean", "10-minute mean"], ["gust", "gust"]],
+        "levels": [[key, lv.label] for key, lv in REFERENCE_LEVELS.items()],
+        "default_levels": list(DEFAULT_LEVEL_KEYS),
+    }
+
+
+def empty_form() -> dict[str, Any]:
+    """A new job: nothing filled in but one work area with one empty edge and the defaults."""
+    from dropcalc.web.form import empty_form as blank
+
+    form = blank()
+    form["site"]["ground"] = "concrete"
+    form["wind"]["kind"] = "mean"
+    form["work_areas"] = check_form(
+        {"work_areas": [{"name": "work area 1", "release": "drop", "edges": [{"name": "edge 1"}]}]}
+    )["work_areas"]
+    return form
