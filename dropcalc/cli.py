@@ -952,6 +952,28 @@ def demo(
     typer.echo(f"Demo files in {out}/: " + ", ".join(Path(f).name for f in files.values()))
 
 
+@app.command()
+def serve(
+    host: Annotated[
+        str,
+        typer.Option(help="Address to listen on (default: this computer only)."),
+    ] = "127.0.0.1",
+    port: Annotated[int, typer.Option(min=0, max=65535, help="Port (0: a free one).")] = 0,
+    no_browser: Annotated[
+        bool, typer.Option("--no-browser", help="Do not open the page in the browser.")
+    ] = False,
+) -> None:
+    """Open the job page in the browser: the whole job without a terminal (Ctrl+C stops it)."""
+    try:
+        from dropcalc.web.serve import serve as run_server
+
+        run_server(host, port, open_browser=not no_browser)
+    except DropcalcError as exc:
+        _fail(str(exc))
+    except KeyboardInterrupt:
+        pass
+
+
 def _contact_tilt(text: str, field: str) -> float:
     """The contact tilt in degrees, in its allowed range (raises InputError naming ``field``)."""
     from dropcalc.errors import require_range

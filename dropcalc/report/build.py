@@ -139,7 +139,7 @@ def build_report(job: JobResult, figure_dir: Path) -> ReportData:
             )
         )
 
-    figures = _figures(job, figure_dir)
+    figures = draw_figures(job, figure_dir)
     air = scenario.air
     info = scenario.job
     return ReportData(
@@ -224,8 +224,23 @@ def _wind_text(job: JobResult) -> str:
     )
 
 
-def _figures(job: JobResult, folder: Path) -> dict[str, Path]:
-    """Side view and energy-against-height figures for the objects that matter most."""
+def draw_figures(job: JobResult, folder: Path, image_format: str = "png") -> dict[str, Path]:
+    """Side view and energy-against-height figures for the objects that matter most.
+
+    Parameters
+    ----------
+    job : JobResult
+        The computed job; its :attr:`~dropcalc.analysis.job.JobResult.figures` say what to draw.
+    folder : Path
+        Folder the files are written to (it must exist).
+    image_format : {"png", "svg"}
+        PNG for the PDF report, SVG for the page (the same drawing either way).
+
+    Returns
+    -------
+    dict of str -> Path
+        ``"side_view"`` and ``"energy_height"``.
+    """
     from dropcalc.analysis.fall import wind_field
     from dropcalc.physics.drag import drag_parameter
     from dropcalc.report.figures import EnergyCurve, SideViewCase, energy_height, side_view
@@ -252,7 +267,7 @@ def _figures(job: JobResult, folder: Path) -> dict[str, Path]:
                     )
                 )
     figures: dict[str, Path] = {}
-    side = folder / "side-view.png"
+    side = folder / f"side-view.{image_format}"
     side_view(side, cases, height, title="Falls from the highest edge, wind straight out")
     figures["side_view"] = side
     curves = [
@@ -267,7 +282,7 @@ def _figures(job: JobResult, folder: Path) -> dict[str, Path]:
         for obj in inputs.objects
     ]
     levels = [(lv.label, lv.value) for lv in scenario.levels if lv.quantity == "energy"]
-    energy = folder / "energy-height.png"
+    energy = folder / f"energy-height.{image_format}"
     energy_height(
         energy, curves, levels, max(2.0 * height, 10.0),
         title="Impact energy against release height (still air, smallest Cd·A)",

@@ -150,9 +150,13 @@ def create_app(*, local_only: bool = True, cache_size: int = 8) -> Starlette:
         How many finished jobs to keep for downloads and repeated inputs.
     """
     from dropcalc import __version__
+    from dropcalc.report.build import load_text
     from dropcalc.texts import CAUTION_SHORT
 
     environment = _environment()
+    cautions = [
+        line[2:].strip() for line in load_text("cautions.md").splitlines() if line.startswith("- ")
+    ]
     cache = service.JobCache(size=cache_size)
     compute_lock = asyncio.Lock()
 
@@ -164,7 +168,7 @@ def create_app(*, local_only: bool = True, cache_size: int = 8) -> Starlette:
             "version": __version__,
         }
         html = environment.get_template("page.html").render(
-            boot=boot, version=__version__, caution=CAUTION_SHORT
+            boot=boot, version=__version__, caution=CAUTION_SHORT, cautions=cautions
         )
         return HTMLResponse(html)
 

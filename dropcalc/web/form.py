@@ -243,8 +243,10 @@ def toml_string(text: str) -> str:
 
 
 def _number_or_text(text: str) -> str:
-    """A number key's value: a TOML number when the text is one, else the text (the loader
-    then names the key in its message)."""
+    """A number key's value: a TOML number when the text is one, else the text.
+
+    The loader then names the key in its message.
+    """
     try:
         value = float(text)
     except ValueError:
@@ -453,8 +455,11 @@ def _key_of_field(message: str) -> str:
 
 
 def field_of_key(key_path: str) -> str:
-    """The form field of a scenario key path: ``work_area[1].edge[2].height`` ->
-    ``work_areas.0.edges.1.height``; ``site.origin`` -> ``site.origin_lat``."""
+    """The form field of a scenario key path.
+
+    ``work_area[1].edge[2].height`` -> ``work_areas.0.edges.1.height``; ``site.origin`` ->
+    ``site.origin_lat``; a table as a whole -> its first field.
+    """
     names = {"work_area": "work_areas", "edge": "edges", "object": "objects"}
     out = []
     for part in key_path.split("."):
@@ -471,7 +476,7 @@ def field_of_key(key_path: str) -> str:
     if field == "site":
         return "site.elevation"
     if field in ("wind", "policy", "job"):
-        return f"{field}.{ {'wind': 'speed', 'policy': 'confidence', 'job': 'title'}[field]}"
+        return f"{field}.{ {'wind': 'speed', 'policy': 'confidence', 'job': 'title'}[field] }"
     if field in ("object", "objects"):
         return "objects"
     return field

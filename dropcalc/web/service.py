@@ -351,3 +351,238 @@ def empty_form() -> dict[str, Any]:
         {"work_areas": [{"name": "work area 1", "release": "drop", "edges": [{"name": "edge 1"}]}]}
     )["work_areas"]
     return form
+
+
+# --------------------------------------------------------------------------------------------
+# The job and its answer
+
+
+def run_form(form_data: Any, cache: JobCache | None = None) -> tuple[Any, str, bool]:
+    """Load a form and run its job (or take it from the cache).
+
+    Returns
+    -------
+    (JobResult, str, bool)
+        The job, the scenario file's text and whether the job came from the cache.
+
+    Raises
+    ------
+    FormError
+        For input the loader or the job refuses, with the field.
+    """
+    from dropcalc.analysis.job import run_job
+
+    scenario, text = load_form(form_data)
+    hit = False
+
+    def run() -> Any:
+        nonlocal hit
+        hit = True
+        try:
+            return run_job(scenario)
+        except DropcalcError as exc:
+            raise FormError([field_error(exc)]) from None
+
+    job = cache.get_or_run(text, run) if cache is not None else run()
+    return job, text, not hit
+
+
+def _rings(geometry: Any) -> list[list[list[list[float]]]]:
+    """A (multi)polygon as [[exterior, hole, ...], ...] rings of [x, y] in metres."""
+    polygons = getattr(geometry, "geoms", [geometry])
+    out = []
+    for polygon in polygons:
+        if polygon.is_empty:
+            continue
+        rings = [polygon.exterior, *polygon.interiors]
+        out.append([[[round(x, 3), round(y, 3)] for x, y in ring.coords] for ring in rings])
+    return out
+
+
+def _svg_data(path: Path) -> str:
+    """An SVG file as a data: URI (shown in an <img>, so nothing in it can run)."""
+    import base64
+
+    return "data:image/svg+xml;base64," + base64.b64encode(path.read_bytes()).decode("ascii")
+
+
+def answer_json(job: Any) -> dict[str, Any]:
+    """What the page shows for a job.
+
+    Per work area the distance to keep clear, what sets it and the zone on the plan; the object
+    table, the controls, the warnings, the figures (SVG from the report's figure code) and the
+    caution.
+    """
+    import math
+
+    from dropcalc.physics.release import describe
+    from dropcalc.report.build import draw_figures
+    from dropcalc.texts import CAUTION_SHORT, NO_FINITE_DISTANCE, keep_clear
+
+    scenario = job.scenario
+    areas = []
+    for area in job.work_areas:
+        finite = math.isfinite(area.radius_m)
+        areas.append(
+            {
+                "name": area.name,
+                "finite": finite,
+                "radius_m": area.radius_m if finite else None,
+                "keep_clear": keep_clear(area.radius_m),
+                "keep_clear_text": (
+                    f"keep {keep_clear(area.radius_m)} m clear" if finite else NO_FINITE_DISTANCE
+                ),
+                "worst_case_radius_m": (
+                    area.worst_case_radius_m if math.isfinite(area.worst_case_radius_m) else None
+                ),
+                "worst_case_text": (
+                    f"{keep_clear(area.worst_case_radius_m)} m (every simulated drop, the envelope)"
+                    if math.isfinite(area.worst_case_radius_m)
+                    else NO_FINITE_DISTANCE
+                ),
+                "confidence_text": f"{100 * scenario.confidence:g} %",
+                "margin_text": f"{scenario.margin:g} m",
+                "margin_m": scenario.margin,
+                "driving_object": area.driving_object,
+                "driving_edge": area.driving_edge,
+                "drift_m": _finite(area.drift_m),
+                "scatter_m": _finite(area.scatter_m),
+                "area_m2": _finite(area.area_m2),
+                "heights_text": ", ".join(f"{e.name} at {e.height:g} m" for e in area.site.edges),
+                "release": describe(area.release, scenario.gravity),
+                "zone": _rings(area.zone.area.polygon) if finite else [],
+            }
+        )
+    objects = []
+    for row in job.object_rows:
+        radius = row.get("zone_radius_m")
+        objects.append(
+            {
+                "label": str(row.get("label") or row.get("name") or row.get("id") or ""),
+                "quantity": row.get("quantity"),
+                "mass_kg": _finite(row.get("mass_kg")),
+                "impact_speed_m_s": _finite(row.get("impact_speed_max_m_s")),
+                "impact_energy_j": _finite(row.get("impact_energy_max_j")),
+                "levels": str(row.get("levels_exceeded") or "").replace("; ", ", "),
+                "control": str(row.get("control") or ""),
+                "zone_text": (
+                    f"{keep_clear(radius)} m"
+                    if isinstance(radius, float) and math.isfinite(radius)
+                    else "—"
+                ),
+                "error": str(row.get("error") or ""),
+            }
+        )
+    with tempfile.TemporaryDirectory(prefix="dropcalc-page-") as folder:
+        paths = draw_figures(job, Path(folder), "svg")
+        figures = {name: _svg_data(path) for name, path in paths.items()}
+    return {
+        "areas": areas,
+        "objects": objects,
+        "controls": [list(pair) for pair in job.controls],
+        "warnings": list(job.warnings),
+        "figures": figures,
+        "caution": CAUTION_SHORT,
+    }
+
+
+def _finite(value: Any) -> float | None:
+    import math
+
+    return float(value) if isinstance(value, int | float) and math.isfinite(value) else None
+
+
+def compute(form_data: Any, cache: JobCache | None = None) -> dict[str, Any]:
+    """Run a form's job and return the page's answer (:func:`answer_json`).
+
+    Raises
+    ------
+    FormError
+        For input the loader refuses, with the field and the command line's message.
+    """
+    import time
+
+    started = time.perf_counter()
+    job, _text, cached = run_form(form_data, cache)
+    answer = answer_json(job)
+    answer["cached"] = cached
+    answer["seconds"] = time.perf_counter() - started
+    return answer
+
+
+# --------------------------------------------------------------------------------------------
+# Documents
+
+#: Documents the page offers: kind -> (media type, file name).
+DOCUMENTS = {
+    "pdf": ("application/pdf", "report.pdf"),
+    "toml": ("application/toml", SCENARIO_NAME),
+    "json": ("application/json", "results.json"),
+    "csv": ("text/csv", "objects.csv"),
+    "geojson": ("application/geo+json", "exclusion-zone.geojson"),
+}
+
+
+def document(kind: str, form_data: Any, cache: JobCache | None = None) -> tuple[bytes, str, str]:
+    """A document for a form: the scenario file, or the job's PDF, JSON, CSV or GeoJSON.
+
+    The same files ``dropcalc demo`` writes for its scenario.
+
+    Returns
+    -------
+    (bytes, str, str)
+        The content, its media type and the file name to offer.
+
+    Raises
+    ------
+    FormError
+        For input the loader refuses.
+    InputError
+        For an unknown kind, or GeoJSON without the site's origin.
+    """
+    import json
+
+    if kind not in DOCUMENTS:
+        raise InputError(f"no such document {kind!r}; known: {', '.join(DOCUMENTS)}")
+    media_type, name = DOCUMENTS[kind]
+    if kind == "toml":
+        _scenario, text = load_form(form_data)
+        return text.encode("utf-8"), media_type, name
+    job, _text, _cached = run_form(form_data, cache)
+    if kind == "geojson":
+        features = [
+            feature
+            for area in job.work_areas
+            if area.geojson
+            for feature in area.geojson["features"]
+        ]
+        if not features:
+            raise FormError(
+                [
+                    FieldError(
+                        "site.origin_lat",
+                        "site.origin: GeoJSON places the zone on the map: give the site's "
+                        "origin (latitude and longitude of the plan's 0, 0) in the method "
+                        "settings",
+                    )
+                ]
+            )
+        data = {"type": "FeatureCollection", "features": features}
+        return json.dumps(data, indent=1).encode("utf-8"), media_type, name
+    if kind == "json":
+        from dropcalc.report.build import summary_json
+
+        full = {"summary": summary_json(job, Path(DOCUMENTS["pdf"][1])), "objects": job.object_rows}
+        return json.dumps(full, indent=2, allow_nan=False).encode("utf-8"), media_type, name
+    with tempfile.TemporaryDirectory(prefix="dropcalc-page-") as folder:
+        target = Path(folder) / name
+        if kind == "csv":
+            from dropcalc.io.atomic import write_rows
+
+            write_rows(target, job.object_rows)
+        else:
+            from dropcalc.report.build import build_report
+            from dropcalc.report.pdf import write_report
+
+            write_report(build_report(job, Path(folder) / "figures"), target)
+        return target.read_bytes(), media_type, name
