@@ -213,14 +213,15 @@ def create_app(*, local_only: bool = True, cache_size: int = 8) -> Starlette:
         return JSONResponse({"request_id": request_id, **answer})
 
     async def _files(request: Request, names: tuple[str, ...]) -> dict[str, tuple[bytes, str]]:
-        form = await request.form(max_files=len(names), max_fields=len(names) + 2)
         files: dict[str, tuple[bytes, str]] = {}
-        for name in names:
-            upload = form.get(name)
-            if upload is None or isinstance(upload, str):
-                continue
-            data = await upload.read(service.MAX_UPLOAD_BYTES + 1)
-            files[name] = (data, upload.filename or "")
+        # Closing the form closes (and deletes) the spooled upload files.
+        async with request.form(max_files=len(names), max_fields=len(names) + 2) as form:
+            for name in names:
+                upload = form.get(name)
+                if upload is None or isinstance(upload, str):
+                    continue
+                data = await upload.read(service.MAX_UPLOAD_BYTES + 1)
+                files[name] = (data, upload.filename or "")
         return files
 
     async def objects_upload(request: Request) -> Response:
@@ -257,8 +258,8 @@ def create_app(*, local_only: bool = True, cache_size: int = 8) -> Starlette:
             if request.headers.get("content-type", "").startswith("application/json"):
                 form_data = await _json_body(request)
             else:
-                fields = await request.form(max_files=0, max_fields=2)
-                text = fields.get("form")
+                async with request.form(max_files=0, max_fields=2) as fields:
+                    text = fields.get("form")
                 if not isinstance(text, str):
                     return _errors(400, "expected the form as JSON in the field 'form'", "form")
                 try:

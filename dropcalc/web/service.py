@@ -286,25 +286,33 @@ def library_categories() -> list[str]:
 
 @dataclass
 class JobCache:
-    """The last few finished jobs by the SHA-256 of their scenario text (least recent out)."""
+    """The last few finished jobs by the SHA-256 of their scenario text (least recent out).
+
+    Each entry is a dict: ``"job"`` (the :class:`~dropcalc.analysis.job.JobResult`) and, once
+    made, ``"answer"`` (what the page shows for it), so a repeated input or a download after a
+    compute costs no second run.
+    """
 
     size: int = 8
-    _items: OrderedDict[str, Any] = field(default_factory=OrderedDict)
+    _items: OrderedDict[str, dict[str, Any]] = field(default_factory=OrderedDict)
     _lock: threading.Lock = field(default_factory=threading.Lock)
 
-    def get_or_run(self, text: str, run: Callable[[], Any]) -> Any:
-        """The cached result for this scenario text, or ``run()``'s (then cached)."""
+    def entry(self, text: str, run: Callable[[], Any]) -> tuple[dict[str, Any], bool]:
+        """The entry for this scenario text, running ``run()`` for its job when there is none.
+
+        Returns the entry and whether it was already cached.
+        """
         key = hashlib.sha256(text.encode("utf-8")).hexdigest()
         with self._lock:
             if key in self._items:
                 self._items.move_to_end(key)
-                return self._items[key]
-        result = run()
+                return self._items[key], True
+        item = {"job": run()}
         with self._lock:
-            self._items[key] = result
+            self._items[key] = item
             while len(self._items) > self.size:
                 self._items.popitem(last=False)
-        return result
+        return item, False
 
 
 def form_errors_json(errors: list[FieldError]) -> list[Mapping[str, str]]:
@@ -357,13 +365,14 @@ def empty_form() -> dict[str, Any]:
 # The job and its answer
 
 
-def run_form(form_data: Any, cache: JobCache | None = None) -> tuple[Any, str, bool]:
+def run_form(form_data: Any, cache: JobCache | None = None) -> tuple[dict[str, Any], bool]:
     """Load a form and run its job (or take it from the cache).
 
     Returns
     -------
-    (JobResult, str, bool)
-        The job, the scenario file's text and whether the job came from the cache.
+    (dict, bool)
+        The cache entry (``"job"``: the JobResult; ``"answer"`` once made) and whether it came
+        from the cache.
 
     Raises
     ------
@@ -373,18 +382,16 @@ def run_form(form_data: Any, cache: JobCache | None = None) -> tuple[Any, str, b
     from dropcalc.analysis.job import run_job
 
     scenario, text = load_form(form_data)
-    hit = False
 
     def run() -> Any:
-        nonlocal hit
-        hit = True
         try:
             return run_job(scenario)
         except DropcalcError as exc:
             raise FormError([field_error(exc)]) from None
 
-    job = cache.get_or_run(text, run) if cache is not None else run()
-    return job, text, not hit
+    if cache is None:
+        return {"job": run()}, False
+    return cache.entry(text, run)
 
 
 def _rings(geometry: Any) -> list[list[list[list[float]]]]:
@@ -503,11 +510,10 @@ def compute(form_data: Any, cache: JobCache | None = None) -> dict[str, Any]:
     import time
 
     started = time.perf_counter()
-    job, _text, cached = run_form(form_data, cache)
-    answer = answer_json(job)
-    answer["cached"] = cached
-    answer["seconds"] = time.perf_counter() - started
-    return answer
+    entry, cached = run_form(form_data, cache)
+    if "answer" not in entry:
+        entry["answer"] = answer_json(entry["job"])
+    return {**entry["answer"], "cached": cached, "seconds": time.perf_counter() - started}
 
 
 # --------------------------------------------------------------------------------------------
@@ -548,7 +554,7 @@ def document(kind: str, form_data: Any, cache: JobCache | None = None) -> tuple[
     if kind == "toml":
         _scenario, text = load_form(form_data)
         return text.encode("utf-8"), media_type, name
-    job, _text, _cached = run_form(form_data, cache)
+    job = run_form(form_data, cache)[0]["job"]
     if kind == "geojson":
         features = [
             feature

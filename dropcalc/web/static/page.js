@@ -10,7 +10,9 @@
 
 const boot = JSON.parse(document.getElementById("boot").textContent);
 const SVG = "http://www.w3.org/2000/svg";
-const AREA_COLOURS = ["#2b6f8e", "#8a5a1e", "#5b4b8a", "#2f7a4f", "#8e2b5a", "#4a6b1f"];
+// Work areas take the colours a0..a5 of the style sheet, in turn.
+const AREA_CLASSES = 6;
+function areaClass(a) { return `a${a % AREA_CLASSES}`; }
 
 let form = clone(boot.empty);
 let leftOut = [];           // rows of the last list upload that could not be used
@@ -149,7 +151,7 @@ function renderAreas() {
   box.textContent = "";
   form.work_areas.forEach((area, a) => {
     const node = $("#area-template").content.firstElementChild.cloneNode(true);
-    node.style.setProperty("--area", AREA_COLOURS[a % AREA_COLOURS.length]);
+    node.classList.add(areaClass(a));
     for (const input of $all("[data-sub]", node)) {
       if (input.closest(".edges")) continue;
       const sub = input.dataset.sub;
@@ -393,8 +395,7 @@ function renderPlan() {
         "M" + ring.map(([x, y]) => `${x},${y}`).join("L") + "Z").join("")).join("");
       if (d) {
         world.append(svg("path", {
-          d, class: "zone" + (isCurrent() ? "" : " stale"), "fill-rule": "evenodd",
-          style: `--area:${AREA_COLOURS[a % AREA_COLOURS.length]}`,
+          d, class: `zone ${areaClass(a)}` + (isCurrent() ? "" : " stale"), "fill-rule": "evenodd",
         }));
       }
     });
@@ -406,8 +407,7 @@ function renderPlan() {
     area.edges.forEach((edge) => {
       if (!Array.isArray(edge.points) || edge.points.length < 1) return;
       world.append(svg("polyline", {
-        points: edge.points.map((p) => p.join(",")).join(" "), class: "edge",
-        style: `--area:${AREA_COLOURS[a % AREA_COLOURS.length]}`,
+        points: edge.points.map((p) => p.join(",")).join(" "), class: `edge ${areaClass(a)}`,
       }));
       const [x, y] = edge.points[0];
       label(x, y + fontSize * 0.6, `${edge.name || "edge"}${edge.height ? " · " + edge.height : ""}`, "edge-label");
@@ -593,8 +593,7 @@ function showAnswer(answer) {
   const cards = $("#area-cards");
   cards.textContent = "";
   answer.areas.forEach((area, a) => {
-    const card = el("article", { class: "card", "data-area": String(a) });
-    card.style.setProperty("--area", AREA_COLOURS[a % AREA_COLOURS.length]);
+    const card = el("article", { class: `card ${areaClass(a)}`, "data-area": String(a) });
     card.append(el("h3", {}, area.name));
     if (area.finite) {
       const big = el("p", { class: "distance" });
