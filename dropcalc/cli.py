@@ -883,7 +883,7 @@ def _write_pdf(job: Any, figure_dir: Path, output: Path) -> int:
 
 
 def _report_lines(summary: dict[str, Any]) -> str:
-    from dropcalc.texts import CAUTION_SHORT, NO_FINITE_DISTANCE, keep_clear
+    from dropcalc.texts import CAUTION_SHORT, NO_FINITE_DISTANCE, format_area, keep_clear
 
     lines = [f"Report written: {summary['pdf']} ({summary['pages']} pages)"]
     for area in summary["work_areas"]:
@@ -894,7 +894,7 @@ def _report_lines(summary: dict[str, Any]) -> str:
             f"  {area['name']}: keep {keep_clear(area['radius_m'])} m clear "
             f"({100 * summary['confidence']:g} % of simulated drops, margin included); "
             f"worst case {keep_clear(area['worst_case_radius_m'])} m; "
-            f"area {area['area_m2']:,.0f} m²"
+            f"area {format_area(area['area_m2'])} m²"
         )
 
     lines.append("Caution: " + CAUTION_SHORT)

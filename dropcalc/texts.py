@@ -26,5 +26,19 @@ def keep_clear(value: float) -> str:
     return f"{math.ceil(value * 10 - 1e-9) / 10:.1f}"
 
 
+def format_area(value: float) -> str:
+    """An area on the plan as text without the unit (3368.4 -> "3,368").
+
+    Whole square metres with thousands separators; one decimal below 100 m² (42.37 -> "42.4").
+
+    Every area dropcalc prints (terminal, PDF, plan drawing) goes through here, so they agree.
+    """
+    import math
+
+    if value is None or not math.isfinite(value):
+        return "—"
+    return f"{value:,.1f}" if value < 100 else f"{value:,.0f}"
+
+
 #: Said instead of a distance when samples were carried away by the wind.
 NO_FINITE_DISTANCE = "no finite distance: objects are carried away by the wind"

@@ -437,3 +437,71 @@ def test_matplotlib_is_imported_only_when_drawing() -> None:
         [sys.executable, "-c", code], capture_output=True, text=True, check=True
     )
     assert result.stdout.strip() == "False"
+
+
+# --- L-shaped building: ground outside the structure, and what lies behind it ------------------
+
+#: An L: a 40 x 12 m south wing and a 12 x 18 m west wing on top of its west end. The inner
+#: courtyard is x > 12, y > 12; the ground west of the west wing (x < 0, y > 12) is behind the
+#: building as seen from the south wing's east end and north face.
+L_OUTLINE = ((0.0, 0.0), (40.0, 0.0), (40.0, 12.0), (12.0, 12.0), (12.0, 30.0), (0.0, 30.0))
+
+
+def l_site() -> tuple[Site, ExclusionArea]:
+    edges = (
+        WorkEdge("wing east", ((40.0, 0.0), (40.0, 12.0)), 24.0),
+        WorkEdge("wing north", ((12.0, 12.0), (40.0, 12.0)), 24.0),
+    )
+    site = Site(outline=L_OUTLINE, edges=edges)
+    # A 35 m disc: wide enough to wrap round the whole building.
+    return site, exclusion_area(site, [(0, 0, disc(35.0)), (1, 0, disc(35.0))], margin=2.0)
+
+
+def test_l_shaped_building_geojson_area_is_ground_outside_the_structure() -> None:
+    site, area = l_site()
+    data = json.loads(json.dumps(to_geojson(area, site, *ORIGIN, {})))
+    zone = from_geojson_local(data, *ORIGIN)
+    # Points inside each wing of the footprint are not in the area to keep clear ...
+    for inside in ((5.0, 20.0), (30.0, 5.0), (6.0, 6.0)):
+        assert not zone.contains(Point(inside)), inside
+    # ... nor is any of the footprint's area (to the millimetre rounding of the degrees).
+    assert zone.intersection(Polygon(L_OUTLINE)).area < 0.05
+    # The courtyard, in direct line of the north face, is in it.
+    assert zone.contains(Point(20.0, 20.0))
+
+
+def test_l_shaped_building_ground_behind_it_is_drawn_apart() -> None:
+    site, area = l_site()
+    beyond = area.beyond_building
+    assert beyond is not None and beyond.area > 0
+    # West of the west wing: a straight line from any point of either work edge crosses the
+    # building (line of sight in plan, by inspection of the outline).
+    assert beyond.contains(Point(-10.0, 20.0))
+    # The courtyard and the ground east of the wing are in direct line of a work edge.
+    assert not beyond.contains(Point(20.0, 20.0))
+    assert not beyond.contains(Point(50.0, 5.0))
+    # South of the south wing, west of x = 0: hidden from the east edge's foot at (40, 0)?
+    # No: the segment from (40, 0) to (-10, -10) stays below y = 0, so it is in direct line.
+    assert not beyond.contains(Point(-10.0, -10.0))
+    assert beyond.difference(area.polygon).area < 1e-6  # part of the area, never outside it
+    data = to_geojson(area, site, *ORIGIN, {})
+    kinds = [f["properties"]["kind"] for f in data["features"]]
+    assert "beyond_building" in kinds
+    back = from_geojson_local(data, *ORIGIN, kind="beyond_building")
+    assert back.contains(Point(-10.0, 20.0))
+
+
+def test_without_an_outline_nothing_is_beyond_the_building() -> None:
+    edge = WorkEdge("edge", ((0.0, 0.0), (10.0, 0.0)), 10.0)
+    area = exclusion_area(Site(outline=None, edges=(edge,)), [(0, 0, disc(5.0))], margin=1.0)
+    assert area.beyond_building is None
+    assert area.beyond_building_m2 == 0.0
+
+
+def test_plan_drawing_of_an_l_shaped_building(tmp_path: Path) -> None:
+    site, area = l_site()
+    out = tmp_path / "plan.svg"
+    plot_plan(area, site, 90.0, out, title="L", wind_label="10 m/s")
+    svg = out.read_text(encoding="utf-8")
+    assert "over or around the building" in svg
+    assert "not modelled" in svg

@@ -107,10 +107,14 @@ def test_glass_and_heavy_sheet_get_prevent_the_drop(many: dict[str, Any]) -> Non
         assert DEFAULT_RULES[-1].control not in by_item[item]
 
 
-#: A breezy day, a plywood sheet and a spanner: the sheet drives the zone.
+#: A breezy day, a plywood sheet and a spanner: the sheet drives the zone. The building is a
+#: 3 m deep strip south of the work edge, so the zone wraps round behind it.
 SHEET = """\
 [job]
 title = "Sheet"
+
+[site]
+outline = [[0, -3], [10, -3], [10, 0], [0, 0]]
 
 [policy]
 precision = 0.2
@@ -150,3 +154,13 @@ def test_page_one_says_when_the_driving_object_carries_a_warning(sheet: dict[str
     beside = first[keep : first.index("Worst case", keep)]
     assert "Warning: the distance is set by Plywood half sheet" in beside, beside
     assert "glide" in beside
+
+
+def test_page_one_says_what_is_reached_only_over_or_around_the_building(
+    sheet: dict[str, Any],
+) -> None:
+    (area,) = sheet["summary"]["work_areas"]
+    assert area["beyond_building_m2"] > 0
+    first = sheet["first"]
+    assert "reached only over or around the building" in first
+    assert "deflection off the structure is not modelled" in first

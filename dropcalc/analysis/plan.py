@@ -280,11 +280,24 @@ class ExclusionArea:
         distance from the boundary to the edges). It is how far out the barrier line reaches.
         Evaluated on boundary points at most ``DISTANCE_SAMPLE_STEP`` apart: low by at most
         1 cm. [m]
+    beyond_building : Polygon, MultiPolygon or None
+        The part of ``polygon`` that no straight line from a work edge reaches without
+        crossing the building outline: ground reached only over or around the building (an
+        inner courtyard, the far side of a wing). It stays in the area to keep clear, but the
+        model does not follow objects around or off the structure (deflection off the
+        structure is not modelled), so it is drawn and reported apart. None without an
+        outline; empty when every part is in direct line. [m]
     """
 
     polygon: Polygon | MultiPolygon
     area_m2: float
     max_distance_m: float
+    beyond_building: Polygon | MultiPolygon | None = None
+
+    @property
+    def beyond_building_m2(self) -> float:
+        """Area of :attr:`beyond_building`, 0 without a building outline [m^2]."""
+        return 0.0 if self.beyond_building is None else float(self.beyond_building.area)
 
 
 def _polygonal(geometry: BaseGeometry) -> Polygon | MultiPolygon:
@@ -308,6 +321,84 @@ def _max_distance_to_edges(polygon: Polygon | MultiPolygon, site: Site) -> float
     dense = shapely.segmentize(boundary, step)
     points = shapely.points(shapely.get_coordinates(dense))
     return float(np.max(shapely.distance(points, edges)))
+
+
+#: Most release points sampled along the work edges to find the ground hidden behind the
+#: building (:func:`beyond_building`); with fewer metres of edge, one a metre. [-]
+SHADOW_SAMPLES = 80
+
+#: Release points are moved this far out from the outline before casting shadows, so that a
+#: work edge lying on the outline does not graze it. [m]
+SHADOW_PROBE_OFFSET = 0.05
+
+
+def _shadow(point: tuple[float, float], outline: Polygon, reach: float) -> BaseGeometry:
+    """Ground hidden from ``point`` behind the outline [m].
+
+    The points P whose segment from ``point`` crosses the outline's boundary: the union, over
+    the outline's sides, of the side and its projection away from ``point`` out to ``reach``.
+    """
+    qx, qy = point
+    quads = []
+    coords = list(outline.exterior.coords)
+    for (ax, ay), (bx, by) in zip(coords[:-1], coords[1:], strict=True):
+        far = []
+        for x, y in ((bx, by), (ax, ay)):
+            dx, dy = x - qx, y - qy
+            norm = math.hypot(dx, dy)
+            if norm < 1e-9:
+                break
+            far.append((x + dx / norm * reach, y + dy / norm * reach))
+        if len(far) < 2:
+            continue
+        quad = Polygon([(ax, ay), (bx, by), far[0], far[1]])
+        if not quad.is_valid:
+            quad = quad.buffer(0)
+        if quad.area > 0:
+            quads.append(quad)
+    return shapely.unary_union(quads) if quads else Polygon()
+
+
+def beyond_building(site: Site, polygon: Polygon | MultiPolygon) -> Polygon | MultiPolygon | None:
+    """The part of ``polygon`` reached from the work edges only over or around the building.
+
+    A ground point is in direct line when a straight segment from some release point on a work
+    edge reaches it without crossing the building outline. The release points are sampled
+    along the edges (at most :data:`SHADOW_SAMPLES`, about one a metre, ends included), each
+    moved :data:`SHADOW_PROBE_OFFSET` outward; the hidden ground is the intersection of their
+    shadows (:func:`_shadow`), and the result is its overlap with ``polygon``. Geometry only
+    (line of sight in plan), derived.
+
+    Returns
+    -------
+    Polygon, MultiPolygon or None
+        None when the site has no outline. [m]
+    """
+    outline = site.outline_polygon
+    if outline is None or polygon.is_empty:
+        return None
+    x0, y0, x1, y1 = shapely.unary_union([polygon, outline]).bounds
+    reach = 4.0 * math.hypot(x1 - x0, y1 - y0) + 1.0
+    total = sum(edge.line.length for edge in site.edges)
+    count = int(min(SHADOW_SAMPLES, max(2 * len(site.edges), math.ceil(total))))
+    hidden: BaseGeometry | None = None
+    for edge in site.edges:
+        normals = segment_normals(site, edge)
+        share = max(2, round(count * edge.line.length / max(total, 1e-9)))
+        for index, normal in enumerate(normals):
+            a = np.asarray(edge.points[index], dtype=float)
+            b = np.asarray(edge.points[index + 1], dtype=float)
+            for s in np.linspace(0.0, 1.0, max(2, share // len(normals) + 1)):
+                q = a + s * (b - a) + SHADOW_PROBE_OFFSET * np.asarray(normal)
+                if outline.contains(shapely.points(q)):
+                    continue
+                shadow = _shadow((float(q[0]), float(q[1])), outline, reach)
+                hidden = shadow if hidden is None else hidden.intersection(shadow)
+                if hidden.is_empty:
+                    return Polygon()
+    if hidden is None:
+        return Polygon()
+    return _polygonal(polygon.intersection(hidden))
 
 
 def exclusion_area(
@@ -394,6 +485,7 @@ def exclusion_area(
         polygon=area,
         area_m2=float(area.area),
         max_distance_m=_max_distance_to_edges(area, site),
+        beyond_building=beyond_building(site, area),
     )
 
 
@@ -508,6 +600,8 @@ def to_geojson(
       clockwise, RFC 7946 §3.1.6), with ``area_m2``, ``max_distance_m``, ``origin_lat``,
       ``origin_lon`` and the caller's ``properties``;
     - ``"building_outline"``: Polygon, when the site has an outline;
+    - ``"beyond_building"``: Polygon or MultiPolygon, the part of the exclusion area reached
+      only over or around the building (:func:`beyond_building`), when there is one;
     - ``"work_edge"``: LineString per work edge, with ``name`` and ``height_m``.
 
     Parameters
@@ -571,6 +665,20 @@ def to_geojson(
                 "type": "Feature",
                 "geometry": _geometry(outline, origin),
                 "properties": {"kind": "building_outline"},
+            }
+        )
+    beyond = area.beyond_building
+    if beyond is not None and not beyond.is_empty and beyond.area > 0:
+        features.append(
+            {
+                "type": "Feature",
+                "geometry": _geometry(beyond, origin),
+                "properties": {
+                    "kind": "beyond_building",
+                    "area_m2": round(float(beyond.area), 2),
+                    "note": "part of the exclusion area reached from the work edges only over "
+                    "or around the building; deflection off the structure is not modelled",
+                },
             }
         )
     features.extend(

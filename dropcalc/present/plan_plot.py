@@ -20,6 +20,7 @@ from shapely.geometry import MultiPolygon, Polygon
 from dropcalc.analysis.plan import ExclusionArea, Site, segment_normals
 from dropcalc.errors import InputError, require_suffix
 from dropcalc.io.atomic import write_atomic
+from dropcalc.texts import format_area, keep_clear
 
 PLOT_FORMATS = (".png", ".svg")
 
@@ -62,10 +63,6 @@ def _polygon_path(geometry: Polygon | MultiPolygon) -> Any:
                 [MplPath.MOVETO] + [MplPath.LINETO] * (len(coordinates) - 2) + [MplPath.CLOSEPOLY]
             )
     return MplPath(vertices, codes)
-
-
-def _format_area(area_m2: float) -> str:
-    return f"{area_m2:,.1f}" if area_m2 < 100 else f"{area_m2:,.0f}"
 
 
 def _draw_north_arrow(axes: Any) -> None:
@@ -138,7 +135,7 @@ def _label_edges(axes: Any, site: Site, offset: float) -> None:
         axes.text(
             x,
             y,
-            f"{edge.name}\nrelease height {edge.height:g} m",
+            f"{edge.name}\nrelease height {edge.height:.3g} m",
             rotation=angle,
             rotation_mode="anchor",
             ha="center",
@@ -248,6 +245,19 @@ def plot_plan(
             zorder=2,
         )
     )
+    beyond = area.beyond_building
+    has_beyond = beyond is not None and not beyond.is_empty and beyond.area > 0
+    if has_beyond:
+        axes.add_patch(
+            PathPatch(
+                _polygon_path(beyond),
+                facecolor="none",
+                edgecolor=area_edge,
+                hatch="///",
+                lw=0.0,
+                zorder=2.5,
+            )
+        )
     if outline is not None:
         axes.add_patch(
             PathPatch(
@@ -307,11 +317,23 @@ def plot_plan(
             facecolor=area_fill,
             edgecolor=area_edge,
             lw=1.8,
-            label=f"exclusion area, {_format_area(area.area_m2)} m²\n"
-            f"reaches {area.max_distance_m:.1f} m from\nthe nearest work edge",
+            label=f"exclusion area, {format_area(area.area_m2)} m²\n"
+            f"reaches {keep_clear(area.max_distance_m)} m from\nthe nearest work edge",
         ),
         Line2D([], [], color=WORK_EDGE_COLOUR, lw=3.2, label="work edge"),
     ]
+    if has_beyond:
+        handles.insert(
+            1,
+            Patch(
+                facecolor=area_fill,
+                edgecolor=area_edge,
+                hatch="///",
+                lw=0.0,
+                label=f"of which {format_area(area.beyond_building_m2)} m² reached\n"
+                "only over or around the building\n(deflection off the structure\nis not modelled)",
+            ),
+        )
     if outline is not None:
         handles.append(
             Patch(facecolor=BUILDING_FILL, edgecolor=BUILDING_EDGE, label="building outline")

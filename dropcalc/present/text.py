@@ -9,7 +9,7 @@ import numpy as np
 
 from dropcalc.analysis.fall import CARRIED_AWAY_DISTANCE, FallCase, FallResult
 from dropcalc.physics.impact import Impact
-from dropcalc.texts import CAUTION_SHORT, keep_clear
+from dropcalc.texts import CAUTION_SHORT, format_area, keep_clear
 from dropcalc.units import format_quantity
 
 
@@ -460,7 +460,7 @@ def render_zone(
         lines.append("")
         area = site_result.area
         lines.extend(textwrap.wrap(
-            f"  Site: exclusion area {area.area_m2:,.0f} m², reaching "
+            f"  Site: exclusion area {format_area(area.area_m2)} m², reaching "
             f"{_fmt(area.max_distance_m, 'length', system)} from the nearest work edge; widest "
             f"zone at {site_result.driver[0]}.", 90, subsequent_indent="  "))  # fmt: skip
         for name, index, z in site_result.segments:

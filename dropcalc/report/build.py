@@ -122,6 +122,7 @@ def build_report(job: JobResult, figure_dir: Path) -> ReportData:
                 margin_m=scenario.margin,
                 standard_error_m=area.standard_error_m,
                 driver_warnings=area.driver_warnings,
+                beyond_building_m2=area.zone.area.beyond_building_m2,
                 segments=[
                     {
                         "edge": name,
@@ -312,6 +313,7 @@ def summary_json(job: JobResult, pdf: Path) -> dict[str, Any]:
                 "scatter_m": a.scatter_m,
                 "margin_m": scenario.margin,
                 "driver_warnings": list(a.driver_warnings),
+                "beyond_building_m2": a.zone.area.beyond_building_m2,
             }
             for a in job.work_areas
         ],

@@ -55,6 +55,9 @@ class WorkAreaResult:
     driver_warnings : tuple of str
         The warnings the driving object carries in the object table (sheets that glide, items
         carried away, anything outside the model); page 1 shows them beside the distance.
+    beyond_building_m2 : float
+        Part of ``area_m2`` reached from the work edges only over or around the building
+        (:func:`dropcalc.analysis.plan.beyond_building`). [m^2]
     """
 
     name: str
@@ -74,6 +77,7 @@ class WorkAreaResult:
     object_radii: dict[str, float]
     plan_png: Path
     driver_warnings: tuple[str, ...] = ()
+    beyond_building_m2: float = 0.0
 
 
 @dataclass(frozen=True)

@@ -51,7 +51,7 @@ from reportlab.platypus import (
 
 from dropcalc.io.atomic import write_atomic
 from dropcalc.report.data import ReportData, WorkAreaResult
-from dropcalc.texts import keep_clear
+from dropcalc.texts import format_area, keep_clear
 
 # --------------------------------------------------------------------------------------------
 # Fonts, colours, styles
@@ -442,8 +442,15 @@ def _work_area_box(
         ("Worst case", f"{keep_clear(area.worst_case_radius_m)}\u00a0m (deterministic envelope)"),
         (
             "Area",
-            f"{sig(area.area_m2)}\u00a0m², reaching {sig(area.max_distance_m)}\u00a0m from the "
-            "nearest work edge",
+            f"{format_area(area.area_m2)}\u00a0m², reaching {keep_clear(area.max_distance_m)}"
+            "\u00a0m from the nearest work edge"
+            + (
+                f"; {format_area(area.beyond_building_m2)}\u00a0m² of it (hatched) is reached "
+                "only over or around the building: deflection off the structure is not "
+                "modelled"
+                if area.beyond_building_m2 > 0
+                else ""
+            ),
         ),
         ("Wind", data.wind_text),
         ("Driven by", f"{area.driving_object}, at {area.driving_edge}"),
