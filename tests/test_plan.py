@@ -473,7 +473,8 @@ def test_l_shaped_building_geojson_area_is_ground_outside_the_structure() -> Non
 def test_l_shaped_building_ground_behind_it_is_drawn_apart() -> None:
     site, area = l_site()
     beyond = area.beyond_building
-    assert beyond is not None and beyond.area > 0
+    assert beyond is not None
+    assert beyond.area > 0
     # West of the west wing: a straight line from any point of either work edge crosses the
     # building (line of sight in plan, by inspection of the outline).
     assert beyond.contains(Point(-10.0, 20.0))
