@@ -40,5 +40,31 @@ def format_area(value: float) -> str:
     return f"{value:,.1f}" if value < 100 else f"{value:,.0f}"
 
 
+#: One foot [m] (international foot, 1959).
+_FOOT = 0.3048
+
+
+def keep_clear_text(value: float, system: str = "si") -> str:
+    """A clearance distance with its unit, rounded up: to 0.1 m, or to a whole foot.
+
+    ``keep_clear_text(16.81) == "16.9 m"``; ``keep_clear_text(16.81, "imperial") == "56 ft"``
+    (16.81 m = 55.15 ft, rounded up).
+    """
+    import math
+
+    if value is None or not math.isfinite(value):
+        return "—"
+    if str(system).lower() == "imperial":
+        return f"{math.ceil(value / _FOOT - 1e-9):,d} ft"
+    return f"{keep_clear(value)} m"
+
+
+def area_text(value_m2: float, system: str = "si") -> str:
+    """An area on the plan with its unit: m², or ft² for imperial (see :func:`format_area`)."""
+    if str(system).lower() == "imperial":
+        return f"{format_area(value_m2 / _FOOT**2)} ft²"
+    return f"{format_area(value_m2)} m²"
+
+
 #: Said instead of a distance when samples were carried away by the wind.
 NO_FINITE_DISTANCE = "no finite distance: objects are carried away by the wind"

@@ -7,6 +7,7 @@ the scenario's own inputs and the rules written out in each test.
 from __future__ import annotations
 
 import json
+import math
 import re
 from pathlib import Path
 from typing import Any
@@ -164,3 +165,75 @@ def test_page_one_says_what_is_reached_only_over_or_around_the_building(
     first = sheet["first"]
     assert "reached only over or around the building" in first
     assert "deflection off the structure is not modelled" in first
+
+
+#: Inputs in feet and miles an hour: 80 ft = 24.384 m and 22 mph = 9.83488 m/s exactly
+#: (international foot and mile, 1959), which the report must not print unrounded.
+IMPERIAL = """\
+[job]
+title = "Imperial inputs"
+
+[policy]
+precision = 0.2
+margin = "6 ft"
+
+[wind]
+speed = "22 mph"
+kind = "gust"
+
+[[work_area]]
+name = "Parapet"
+  [[work_area.edge]]
+  name = "west"
+  points = [[0, 0], [0, 10]]
+  height = "80 ft"
+  [[work_area.edge]]
+  name = "north"
+  points = [[0, 10], [10, 10]]
+  height = "80 ft"
+
+[[object]]
+id = "combination-spanner-19mm"
+"""
+
+
+@pytest.fixture(scope="module")
+def imperial(tmp_path_factory: pytest.TempPathFactory) -> dict[str, Any]:
+    summary, pdf = run_report(tmp_path_factory.mktemp("imperial"), IMPERIAL)
+    texts = [flat(page.extract_text()) for page in PdfReader(pdf).pages]
+    return {"summary": summary, "pdf": pdf, "texts": texts}
+
+
+def significant_digits(number: str) -> int:
+    digits = number.replace(",", "").replace(".", "").lstrip("0")
+    return len(digits)
+
+
+def test_no_number_in_the_pdf_has_more_digits_than_its_precision(
+    imperial: dict[str, Any],
+) -> None:
+    text = " ".join(imperial["texts"])
+    for raw in ("24.384", "9.83488", "1.8288", "9.8066"):
+        assert raw not in text, raw
+    # Every decimal number is printed to at most four significant figures (the air density
+    # and g are the only four-figure values; distances, speeds and energies have three).
+    decimals = re.findall(r"(?<![\w.,])\d[\d,]*\.\d+(?![\w.])", text)
+    assert decimals
+    # Document numbers are names, not values: DESR 6055.09, IBC Table 3306.1, 29 CFR 1926.502.
+    names = {"6055.09", "3306.1", "1926.502", "1926.252", "1910.266"}
+    too_long = [d for d in decimals if significant_digits(d) > 4 and d not in names]
+    assert not too_long, too_long
+    # Two edges of the same height are one height, not "24.4 m, 24.4 m".
+    assert "24.4 m, 24.4 m" not in text.replace("\u00a0", " ")
+
+
+def test_one_radius_string_in_sentence_and_tables(imperial: dict[str, Any]) -> None:
+    (area,) = imperial["summary"]["work_areas"]
+    # Rounded up to 0.1 m, written out from the rule (not the code's own formatter).
+    shown = f"{math.ceil(round(area['radius_m'] * 10, 6)) / 10:.1f}"
+    text = " ".join(imperial["texts"]).replace("\u00a0", " ")
+    assert f"Keep {shown} m clear" in text
+    assert f"computed zone {shown} m" in text
+    # The object table's zone radius of the only object is the same string.
+    table = text[text.index("zone radius") : text.index("Reference levels used")]
+    assert re.search(rf"(?<![\d.]){re.escape(shown)}(?![\d])", table), table

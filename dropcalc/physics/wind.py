@@ -714,12 +714,12 @@ class WindSpec:
         elif self.profile == "power":
             law = f"power-law profile, exponent {self.exponent:.3g}"
         else:
-            law = f"log-law profile, roughness length {self.roughness_length:g} m"
+            law = f"log-law profile, roughness length {self.roughness_length:.3g} m"
         if self.profile != "uniform" and self.minimum_height > 0:
-            law += f", constant below {self.minimum_height:g} m"
+            law += f", constant below {self.minimum_height:.3g} m"
         origin = "" if terrain_class is None else f" ({terrain_class.label})"
         return (
-            f"Wind {self.speed_10m:g} m/s at 10 m from {self.from_direction_deg:g} deg, "
+            f"Wind {self.speed_10m:.3g} m/s at 10 m from {self.from_direction_deg:.0f} deg, "
             f"given as {what}; {law}{origin}."
         )
 

@@ -9,7 +9,7 @@ import numpy as np
 
 from dropcalc.analysis.fall import CARRIED_AWAY_DISTANCE, FallCase, FallResult
 from dropcalc.physics.impact import Impact
-from dropcalc.texts import CAUTION_SHORT, format_area, keep_clear
+from dropcalc.texts import CAUTION_SHORT, area_text, keep_clear_text
 from dropcalc.units import format_quantity
 
 
@@ -81,7 +81,8 @@ def _wind_text(case: FallCase, system: str) -> str:
         return "still air"
     kind = "gust" if wind.kind == "gust" else "mean"
     text = (
-        f"{_fmt(wind.speed_10m, 'speed', system)} {kind} at 10 m, from "
+        f"{_fmt(wind.speed_10m, 'speed', system)} {kind} at {_fmt(10.0, 'length', system, 2)}, "
+        "from "
         f"{wind.from_direction_deg:.0f}°; "
     )
     if wind.profile == "uniform":
@@ -134,7 +135,7 @@ def render_fall(result: FallResult, system: str = "si") -> str:
                     f"{_fmt(case.height, 'length', system)} above the landing surface; "
                     f"the edge faces {case.edge_azimuth:.0f}°"),
         ("Air", f"{_fmt(case.air.density, 'density', system, 4)} ({case.air.basis}); "
-                f"g = {case.gravity:.5g} m/s²"),
+                f"g = {_fmt(case.gravity, 'acceleration', system, 4)}"),
         ("Wind", _wind_text(case, system)),
     ]  # fmt: skip
     for label, text in header:
@@ -378,7 +379,7 @@ def zone_statement(result: object, system: str = "si") -> str:
         f"{pct} of simulated drops of the {d.obj.name} came to rest within "
         f"{_fmt(rest, 'length', system)} of the release point at the edge, plus a "
         f"{_fmt(s.margin, 'length', system)} margin: keep "
-        + (f"{keep_clear(d.radius)} m" if system == "si" else _fmt(d.radius, "length", system))
+        + keep_clear_text(d.radius, system)
         + " clear."
     )
     if len(r.objects) > 1:
@@ -430,7 +431,8 @@ def render_zone(
     lines.extend(textwrap.wrap(zone_statement(r, system), 90))
     lines.append("")
     rows = [
-        ("Radius at confidence", _fmt(r.radius, "length", system)),
+        ("Keep clear (rounded up)", keep_clear_text(r.radius, system)),
+        ("Radius at confidence", _fmt(r.radius, "length", system, 4)),
         ("  air drift", _fmt(d.drift, "length", system)),
         ("  scatter after landing", _fmt(d.scatter, "length", system)),
         ("  margin", _fmt(s.margin, "length", system)),
@@ -438,7 +440,8 @@ def render_zone(
         ("Worst case (envelope)", f"{_fmt(r.worst_case, 'length', system)} "
                                   f"({r.worst_case_driver.obj.name})"),
         ("Work height", _fmt(s.height, "length", system)),
-        ("Wind", f"{_fmt(s.wind.speed_10m, 'speed', system)} {s.wind.kind} at 10 m; gust "
+        ("Wind", f"{_fmt(s.wind.speed_10m, 'speed', system)} {s.wind.kind} at "
+                 f"{_fmt(10.0, 'length', system, 2)}; gust "
                  f"{_fmt(r.gust_speed, 'speed', system)}, turbulence intensity "
                  f"{r.turbulence_intensity:.2f}"),
         ("Ground", f"{s.ground.label}; first bounce off a contact tilted up to "
@@ -460,12 +463,13 @@ def render_zone(
         lines.append("")
         area = site_result.area
         lines.extend(textwrap.wrap(
-            f"  Site: exclusion area {format_area(area.area_m2)} m², reaching "
-            f"{_fmt(area.max_distance_m, 'length', system)} from the nearest work edge; widest "
+            f"  Site: exclusion area {area_text(area.area_m2, system)}, reaching "
+            f"{keep_clear_text(area.max_distance_m, system)} from the nearest work edge; widest "
             f"zone at {site_result.driver[0]}.", 90, subsequent_indent="  "))  # fmt: skip
         for name, index, z in site_result.segments:
             lines.append(
-                f"    {name} (segment {index + 1}, {z.settings.height:g} m, facing "
+                f"    {name} (segment {index + 1}, {_fmt(z.settings.height, 'length', system)}, "
+                f"facing "
                 f"{z.settings.edge_azimuth:.0f}°): {_fmt(z.radius, 'length', system)}"
                 f" / worst case {_fmt(z.worst_case, 'length', system)}"
             )

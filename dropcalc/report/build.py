@@ -96,7 +96,7 @@ def build_report(job: JobResult, figure_dir: Path) -> ReportData:
     label = (
         "still air"
         if wind.speed_10m == 0
-        else f"{wind.speed_10m:g} m/s {wind.kind}"
+        else f"{wind.speed_10m:.3g} m/s {wind.kind}"
         + ("\nassumed out from\neach edge" if job.wind_outward else "")
     )
     areas: list[WorkAreaResult] = []
@@ -160,13 +160,13 @@ def build_report(job: JobResult, figure_dir: Path) -> ReportData:
         generated=_dt.datetime.now(_dt.UTC).strftime("%Y-%m-%d %H:%M UTC"),
         confidence=scenario.confidence,
         wind_text=_wind_text(job),
-        air_text=f"{air.density:.4g} kg/m³ ({air.basis}); g = {scenario.gravity:.5g} m/s²",
+        air_text=f"{air.density:.4g} kg/m³ ({air.basis}); g = {scenario.gravity:.4g} m/s²",
         ground_text=scenario.ground.label,
         inputs=[
             ("Wind profile", wind.describe().split("; ", 1)[-1]),
             ("Gust used for the worst case", f"{job.gust_speed_10m:.3g} m/s at 10 m"),
-            ("Gravity", f"{scenario.gravity:.5g} m/s²"),
-            ("Margin added", f"{scenario.margin:g} m"),
+            ("Gravity", f"{scenario.gravity:.4g} m/s²"),
+            ("Margin added", f"{scenario.margin:.3g} m"),
             (
                 "Bounce off the ground",
                 f"the first contact's normal tilted up to {scenario.contact_tilt:g}° "
@@ -220,7 +220,7 @@ def _wind_text(job: JobResult) -> str:
         else f"from {wind.from_direction_deg:.0f}°"
     )
     return (
-        f"{wind.speed_10m:g} m/s {wind.kind} at 10 m (gust {job.gust_speed_10m:.3g} m/s), "
+        f"{wind.speed_10m:.3g} m/s {wind.kind} at 10 m (gust {job.gust_speed_10m:.3g} m/s), "
         f"{profile}; {direction}"
     )
 

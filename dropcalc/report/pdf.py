@@ -433,7 +433,7 @@ def _work_area_box(
     """One work area: the distance to keep clear, what it rests on, and its plan."""
     plan_width = 98 * mm
     text_width = FRAME_WIDTH - plan_width - 4 * mm
-    heights = ", ".join(f"{sig(h)}\u00a0m" for h in area.heights_m) or "—"
+    heights = ", ".join(dict.fromkeys(f"{sig(h)}\u00a0m" for h in area.heights_m)) or "—"
     made_of = (
         f"drift {sig(area.drift_m)}\u00a0m + scatter {sig(area.scatter_m)}\u00a0m + "
         f"margin {sig(area.margin_m)}\u00a0m"
@@ -454,7 +454,10 @@ def _work_area_box(
         ),
         ("Wind", data.wind_text),
         ("Driven by", f"{area.driving_object}, at {area.driving_edge}"),
-        ("Release", f"{area.release}; edge heights {heights}"),
+        (
+            "Release",
+            f"{area.release}; edge height{'s' if ',' in heights else ''} {heights}",
+        ),
         ("Made of", made_of),
     ]
     fact_cells = [
@@ -668,6 +671,12 @@ _OBJECT_COLUMNS = (
 )
 
 
+def _zone_radius(value: object) -> str:
+    """An item's own zone radius as page 1 prints a distance: rounded up to 0.1 m."""
+    number = _finite(value)
+    return "—" if number is None else keep_clear(number)
+
+
 def _drag_range(row: dict[str, Any]) -> str:
     low, high = row.get("drag_area_min_m2"), row.get("drag_area_max_m2")
     if _finite(low) is None and _finite(high) is None:
@@ -724,7 +733,7 @@ def _objects(data: ReportData, styles: dict[str, ParagraphStyle]) -> list[Flowab
                 sig(row.get("energy_per_contact_area_j_cm2")),
                 Paragraph(_text(levels), styles["cell"]),
                 sig(row.get("drift_max_m")),
-                sig(row.get("zone_radius_m")),
+                _zone_radius(row.get("zone_radius_m")),
             ]
         )
     table = Table(
