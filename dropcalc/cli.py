@@ -848,9 +848,18 @@ def report(
     output: Annotated[Path, typer.Option("-o", "--output", help="The PDF to write.")] = Path(
         "report.pdf"
     ),
+    out_dir: Annotated[
+        Path | None,
+        typer.Option(
+            "--out-dir",
+            help="Write the whole job into this folder (created if missing): the PDF (named as "
+            "-o), results.json, objects.csv, one GeoJSON per work area (when the scenario gives "
+            "site.origin) and the figures.",
+        ),
+    ] = None,
     as_json: JsonOpt = False,
 ) -> None:
-    """Write the exclusion-zone report (PDF) for a scenario file."""
+    """Write the exclusion-zone report (PDF) for a scenario file; with --out-dir, every file."""
     import tempfile
 
     try:
@@ -861,17 +870,68 @@ def report(
         if output.suffix.lower() != ".pdf":
             raise InputError(f"-o must name a .pdf file; got {output.name}")
         job = run_job(load_scenario(scenario), _progress(as_json))
-        with tempfile.TemporaryDirectory(prefix="dropcalc-figures-") as folder:
-            pages = _write_pdf(job, Path(folder), output)
+        if out_dir is not None:
+            out_dir.mkdir(parents=True, exist_ok=True)
+            summary = _write_job_files(job, out_dir, out_dir / output.name)
+        else:
+            with tempfile.TemporaryDirectory(prefix="dropcalc-figures-") as folder:
+                pages = _write_pdf(job, Path(folder), output)
+            summary = summary_json(job, output)
+            summary["pages"] = pages
     except DropcalcError as exc:
         _fail(str(exc))
         return
-    summary = summary_json(job, output)
-    summary["pages"] = pages
+    except OSError as exc:
+        _fail(f"cannot write the job's files ({exc.strerror or exc})")
+        return
     if as_json:
         typer.echo(json.dumps(summary, indent=2, allow_nan=False))
     else:
         typer.echo(_report_lines(summary))
+        if out_dir is not None:
+            typer.echo(_files_line(out_dir, summary["files"]))
+
+
+def _write_job_files(job: Any, out: Path, pdf: Path) -> dict[str, Any]:
+    """Write a job's PDF, figures, objects.csv, GeoJSON and results.json into ``out``.
+
+    Returns the report summary with ``pages`` and ``files`` (every file written, by role).
+    """
+    from dropcalc.io.atomic import write_atomic, write_rows
+    from dropcalc.report.build import summary_json
+
+    figures = out / "figures"
+    pages = _write_pdf(job, figures, pdf)
+    write_rows(out / "objects.csv", job.object_rows)
+    summary = summary_json(job, pdf)
+    summary["pages"] = pages
+    files = {"pdf": str(pdf), "objects_csv": str(out / "objects.csv")}
+    for index, area in enumerate(job.work_areas, start=1):
+        data = area.geojson
+        if data is not None:
+            target = out / f"exclusion-area-{index}.geojson"
+            text = json.dumps(data, indent=1)
+            write_atomic(target, lambda p, t=text: p.write_text(t, encoding="utf-8"))
+            files[f"geojson_{index}"] = str(target)
+    for figure in sorted(figures.glob("*.png")):
+        files[f"figure_{figure.stem}"] = str(figure)
+    summary["files"] = files
+    full = {"summary": summary, "objects": job.object_rows}
+    text = json.dumps(full, indent=2, allow_nan=False)
+    write_atomic(out / "results.json", lambda p: p.write_text(text, encoding="utf-8"))
+    files["results_json"] = str(out / "results.json")
+    return summary
+
+
+def _files_line(out: Path, files: dict[str, str]) -> str:
+    """The closing line naming every file written, relative to ``out``."""
+    names = []
+    for path in files.values():
+        try:
+            names.append(str(Path(path).relative_to(out)))
+        except ValueError:
+            names.append(str(path))
+    return f"Files in {out}/: " + ", ".join(names)
 
 
 def _write_pdf(job: Any, figure_dir: Path, output: Path) -> int:
@@ -913,9 +973,8 @@ def demo(
 
     try:
         from dropcalc.analysis.job import run_job
-        from dropcalc.io.atomic import write_atomic, write_rows
+        from dropcalc.io.atomic import write_atomic
         from dropcalc.io.scenario import load_scenario
-        from dropcalc.report.build import summary_json
         from dropcalc.resources import data_path
 
         source = data_path("templates") / "demo"
@@ -924,23 +983,12 @@ def demo(
         for name in ("scenario.toml", "items.csv"):
             write_atomic(out / name, lambda p, n=name: shutil.copyfile(source / n, p))
         job = run_job(load_scenario(out / "scenario.toml"), _progress(as_json))
-        pdf = out / "report.pdf"
-        pages = _write_pdf(job, out / "figures", pdf)
-        write_rows(out / "objects.csv", job.object_rows)
-        summary = summary_json(job, pdf)
-        summary["pages"] = pages
-        files = {"pdf": str(pdf), "objects_csv": str(out / "objects.csv")}
-        for index, area in enumerate(job.work_areas, start=1):
-            data = area.geojson
-            if data is not None:
-                target = out / f"exclusion-area-{index}.geojson"
-                text = json.dumps(data, indent=1)
-                write_atomic(target, lambda p, t=text: p.write_text(t, encoding="utf-8"))
-                files[f"geojson_{index}"] = str(target)
-        full = {"summary": summary, "objects": job.object_rows}
-        text = json.dumps(full, indent=2, allow_nan=False)
-        write_atomic(out / "results.json", lambda p: p.write_text(text, encoding="utf-8"))
-        files["results_json"] = str(out / "results.json")
+        summary = _write_job_files(job, out, out / "report.pdf")
+        files = {
+            "scenario": str(out / "scenario.toml"),
+            "items_csv": str(out / "items.csv"),
+            **summary["files"],
+        }
         summary["files"] = files
     except DropcalcError as exc:
         _fail(str(exc))
@@ -949,7 +997,7 @@ def demo(
         typer.echo(json.dumps(summary, indent=2, allow_nan=False))
         return
     typer.echo(_report_lines(summary))
-    typer.echo(f"Demo files in {out}/: " + ", ".join(Path(f).name for f in files.values()))
+    typer.echo(_files_line(out, files).replace("Files in", "Demo files in", 1))
 
 
 @app.command()

@@ -497,6 +497,9 @@ def test_demo_writes_every_file(tmp_path: Path) -> None:
     with (out / "objects.csv").open(encoding="utf-8", newline="") as handle:
         rows = list(csv.DictReader(handle))
     assert len(rows) == summary["objects"] == len(results["objects"])
+    # The closing message names every file written (it prints summary["files"]).
+    written = {str(p) for p in out.rglob("*") if p.is_file()}
+    assert written == set(summary["files"].values())
 
 
 WINDBORNE = """\

@@ -6,6 +6,7 @@ the scenario's own inputs and the rules written out in each test.
 
 from __future__ import annotations
 
+import csv
 import json
 import math
 import re
@@ -116,6 +117,7 @@ title = "Sheet"
 
 [site]
 outline = [[0, -3], [10, -3], [10, 0], [0, 0]]
+origin = { lat = 53.5, lon = -2.2 }
 
 [policy]
 precision = 0.2
@@ -140,9 +142,11 @@ id = "combination-spanner-19mm"
 
 @pytest.fixture(scope="module")
 def sheet(tmp_path_factory: pytest.TempPathFactory) -> dict[str, Any]:
-    summary, pdf = run_report(tmp_path_factory.mktemp("sheet"), SHEET)
+    folder = tmp_path_factory.mktemp("sheet")
+    summary, _ = run_report(folder, SHEET, "--out-dir", str(folder / "job"))
+    pdf = folder / "job" / "report.pdf"
     first = flat(PdfReader(pdf).pages[0].extract_text())
-    return {"summary": summary, "pdf": pdf, "first": first}
+    return {"summary": summary, "pdf": pdf, "first": first, "out": folder / "job"}
 
 
 def test_page_one_says_when_the_driving_object_carries_a_warning(sheet: dict[str, Any]) -> None:
@@ -237,3 +241,26 @@ def test_one_radius_string_in_sentence_and_tables(imperial: dict[str, Any]) -> N
     # The object table's zone radius of the only object is the same string.
     table = text[text.index("zone radius") : text.index("Reference levels used")]
     assert re.search(rf"(?<![\d.]){re.escape(shown)}(?![\d])", table), table
+
+
+def test_report_out_dir_writes_pdf_json_csv_and_geojson(sheet: dict[str, Any]) -> None:
+    out = sheet["out"]
+    files = sheet["summary"]["files"]
+    assert Path(files["pdf"]) == out / "report.pdf"
+    for role in ("pdf", "objects_csv", "results_json", "geojson_1"):
+        assert Path(files[role]).is_file(), role
+    results = json.loads((out / "results.json").read_text(encoding="utf-8"))
+    assert results["summary"]["work_areas"][0]["radius_m"] == pytest.approx(
+        sheet["summary"]["work_areas"][0]["radius_m"], rel=0, abs=0
+    )
+    with (out / "objects.csv").open(encoding="utf-8") as handle:
+        rows = list(csv.DictReader(handle))
+    assert len(rows) == 2
+    assert "Plywood half sheet" in {r["label"] for r in rows}
+    geo = json.loads((out / "exclusion-area-1.geojson").read_text(encoding="utf-8"))
+    assert geo["type"] == "FeatureCollection"  # RFC 7946 sec. 3.3
+    kinds = {f["properties"]["kind"] for f in geo["features"]}
+    assert {"exclusion_area", "building_outline", "work_edge", "beyond_building"} <= kinds
+    # Every file the summary names exists; nothing it wrote is left unnamed.
+    written = {str(p) for p in out.rglob("*") if p.is_file()}
+    assert written == set(files.values())
