@@ -672,6 +672,7 @@ def zone(
             compute_zone,
             greatest_height,
             highest_wind,
+            still_air_radius,
         )
         from dropcalc.physics.scatter import surface
 
@@ -742,11 +743,14 @@ def zone(
             distance = float(_q(barricade, "length", "--barricade"))
             if not distance > 0:
                 raise InputError(f"--barricade must be a distance > 0 m; got {barricade}")
-            limits = (
-                distance,
-                highest_wind(objects, settings, distance),
-                greatest_height(objects, settings, distance),
-            )
+            wind_limit = highest_wind(objects, settings, distance)
+            limits = {
+                "distance": distance,
+                "wind": wind_limit,
+                "height": greatest_height(objects, settings, distance),
+                "needed": result.radius,
+                "still_air": still_air_radius(objects, settings) if wind_limit == 0 else None,
+            }
     except DropcalcError as exc:
         _fail(str(exc))
         return

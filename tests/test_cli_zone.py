@@ -180,6 +180,26 @@ def test_barricade_adds_its_fields_and_they_hold_when_rerun() -> None:
     assert zone_json("--height", f"{height!r} m", *SPANNER)["radius_m"] <= 25.0
 
 
+def test_barricade_too_close_even_in_still_air_says_so_and_gives_the_distance() -> None:
+    # A spanner dropped from 24 m cannot land within 1 m of the edge: it bounces and slides
+    # further than that on concrete (issue 13: the answer was "holds up to a mean wind of
+    # 0.00 m/s").
+    base = ("--height", "24 m", *SPANNER, "--wind", "5 m/s", "--barricade", "1 m")
+    data = zone_json(*base)
+    assert data["barricade_highest_wind_m_s"] == 0
+    assert data["barricade_too_close_in_still_air"] is True
+    assert data["barricade_holds"] is False
+    still = data["barricade_needed_in_still_air_m"]
+    assert 1.0 < still <= data["barricade_needed_m"]
+    assert data["barricade_needed_m"] == data["radius_m"]
+    text = _flat(invoke(*base).stdout)
+    assert "too close even in still air" in text
+    assert "0.00 m/s" not in text
+    # The distance that would hold, rounded up to 0.1 m like every keep-clear distance.
+    needed = math.ceil(round(data["radius_m"] * 10, 6)) / 10
+    assert f"Move the barricade to at least {needed:.1f} m" in text
+
+
 # --- Human output ----------------------------------------------------------------------------
 
 

@@ -754,6 +754,20 @@ def highest_wind(
     return low
 
 
+def still_air_radius(objects: Sequence[ZoneObject], settings: ZoneSettings) -> float:
+    """The zone radius [m] at the settings' height in still air (same samples as the limits).
+
+    The distance a barricade needs when even still air needs more than it (where
+    :func:`highest_wind` returns 0).
+    """
+    from dataclasses import replace
+
+    wind = replace(settings.wind, speed_10m=0.0, kind="mean")
+    return compute_zone(
+        objects, replace(settings, wind=wind, max_samples=INITIAL_SAMPLES), envelope=False
+    ).radius
+
+
 def greatest_height(
     objects: Sequence[ZoneObject],
     settings: ZoneSettings,

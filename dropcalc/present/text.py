@@ -301,7 +301,7 @@ def render_object(obj: object, system: str = "si") -> str:
     return "\n".join(lines)
 
 
-def zone_json(result: object, limits: tuple[float, float, float] | None = None) -> dict:
+def zone_json(result: object, limits: dict | None = None) -> dict:
     """The zone JSON contract (DESIGN.md) plus per-object figures and the statement in words."""
     r = result
     s = r.settings
@@ -353,12 +353,45 @@ def zone_json(result: object, limits: tuple[float, float, float] | None = None) 
         "caution": CAUTION_SHORT,
     }
     if limits is not None:
-        (
-            out["barricade_m"],
-            out["barricade_highest_wind_m_s"],
-            out["barricade_greatest_height_m"],
-        ) = limits
+        out["barricade_m"] = limits["distance"]
+        out["barricade_highest_wind_m_s"] = limits["wind"]
+        out["barricade_greatest_height_m"] = limits["height"]
+        out["barricade_holds"] = bool(limits["needed"] <= limits["distance"])
+        out["barricade_too_close_in_still_air"] = limits["still_air"] is not None
+        out["barricade_needed_m"] = finite(limits["needed"])
+        out["barricade_needed_in_still_air_m"] = (
+            None if limits["still_air"] is None else finite(limits["still_air"])
+        )
     return out
+
+
+def barricade_text(limits: dict, system: str = "si") -> str:
+    """What a barricade at a given distance holds, or that it is too close, in words.
+
+    ``limits`` holds ``distance`` (the barricade), ``wind`` (highest mean wind at 10 m it
+    holds), ``height`` (greatest work height it holds in the day's wind), ``needed`` (the zone
+    radius in the day's wind) and ``still_air`` (the radius in still air, given only when even
+    still air needs more than the barricade). [m], [m/s]
+    """
+    if limits["still_air"] is not None:
+        return (
+            f"too close even in still air: objects dropped from this height need "
+            f"{keep_clear_text(limits['still_air'], system)} with no wind and "
+            f"{keep_clear_text(limits['needed'], system)} in this wind. Move the barricade "
+            f"to at least {keep_clear_text(limits['needed'], system)}"
+            + (
+                f", or work no higher than {_fmt(limits['height'], 'length', system)}."
+                if limits["height"] > 0
+                else "."
+            )
+        )
+    holds = "holds" if limits["needed"] <= limits["distance"] else "is too close"
+    return (
+        f"{holds} in this wind (the zone needs {keep_clear_text(limits['needed'], system)}); "
+        f"stop work above a mean wind of {_fmt(limits['wind'], 'speed', system)} at "
+        f"{_fmt(10.0, 'length', system, 2)}. In this wind it holds up to a work height of "
+        f"{_fmt(limits['height'], 'length', system)}."
+    )
 
 
 def zone_statement(result: object, system: str = "si") -> str:
@@ -409,7 +442,7 @@ def site_json(site_result: object) -> dict:
 def render_zone(
     result: object,
     system: str = "si",
-    limits: tuple[float, float, float] | None = None,
+    limits: dict | None = None,
     site_result: object | None = None,
 ) -> str:
     """Readable zone summary with its parts, per-object lines and the cautions."""
@@ -448,11 +481,9 @@ def render_zone(
                    f"{s.uncertainty.contact_tilt:g}° (a third for round items)"),
     ]  # fmt: skip
     if limits is not None:
-        distance, wind, height = limits
         rows.append(
-            (f"Barricade at {_fmt(distance, 'length', system)}",
-             f"holds up to a mean wind of {_fmt(wind, 'speed', system)} at this height, and up "
-             f"to a work height of {_fmt(height, 'length', system)} in this wind")
+            (f"Barricade at {_fmt(limits['distance'], 'length', system)}",
+             barricade_text(limits, system))
         )  # fmt: skip
     width = max(len(label) for label, _ in rows) + 2
     for label, text in rows:
