@@ -128,6 +128,7 @@ terrain = "suburban"
 
 [[work_area]]
 name = "Roof"
+clear_distance = "60 m"
   [[work_area.edge]]
   points = [[0, 0], [10, 0]]
   height = "12 m"
@@ -187,6 +188,7 @@ kind = "gust"
 
 [[work_area]]
 name = "Parapet"
+clear_distance = "1 m"
   [[work_area.edge]]
   name = "west"
   points = [[0, 0], [0, 10]]
@@ -264,3 +266,19 @@ def test_report_out_dir_writes_pdf_json_csv_and_geojson(sheet: dict[str, Any]) -
     # Every file the summary names exists; nothing it wrote is left unnamed.
     written = {str(p) for p in out.rglob("*") if p.is_file()}
     assert written == set(files.values())
+
+
+def test_stop_work_wind_is_a_line_of_the_answer_page(
+    sheet: dict[str, Any], imperial: dict[str, Any]
+) -> None:
+    (area,) = sheet["summary"]["work_areas"]
+    assert area["clear_distance_m"] == 60.0
+    wind = area["stop_work_wind_m_s"]
+    assert wind > 0
+    first = sheet["first"].replace("\u00a0", " ")
+    assert f"Stop work above a mean wind of {wind:.3g} m/s at 10 m" in first
+    # 1 m from an 80 ft edge is too small even in still air: said so, with what is needed.
+    (tight,) = imperial["summary"]["work_areas"]
+    assert tight["stop_work_wind_m_s"] == 0
+    page = imperial["texts"][0].replace("\u00a0", " ")
+    assert "1.0 m clear distance available is too small even in still air" in page

@@ -69,6 +69,13 @@ class WorkAreaJob:
     driver_warnings : tuple of str
         The warnings the driving object carries in the object table (a sheet that glides, an
         item carried away, anything outside the model): the distance may be too small for it.
+    clear_distance_m : float or None
+        The clear distance the scenario says is available from this area's edges (its
+        ``clear_distance``), None when not given. [m]
+    stop_work_wind_m_s : float or None
+        With ``clear_distance_m``: the highest mean wind at 10 m in which the zone at the
+        highest edge stays within it (:func:`dropcalc.analysis.zone.highest_wind`; 0 when
+        even still air needs more). [m/s]
     """
 
     name: str
@@ -88,6 +95,8 @@ class WorkAreaJob:
     object_radii: Mapping[str, float]
     geojson: dict[str, Any] | None
     driver_warnings: tuple[str, ...] = ()
+    clear_distance_m: float | None = None
+    stop_work_wind_m_s: float | None = None
 
 
 @dataclass(frozen=True)
@@ -202,9 +211,14 @@ def run_job(scenario: Scenario, progress: Callable[[int, int], None] | None = No
     outward = not scenario.wind_from_given
     areas: list[WorkAreaJob] = []
     for area in scenario.work_areas:
-        result = site_zone(
-            objects, zone_settings(scenario, area), area.site, progress, wind_outward=outward
-        )
+        settings = zone_settings(scenario, area)
+        result = site_zone(objects, settings, area.site, progress, wind_outward=outward)
+        stop_wind = None
+        if area.clear_distance is not None:
+            from dropcalc.analysis.zone import highest_wind
+
+            driving = result.driver[2].settings
+            stop_wind = highest_wind(objects, driving, area.clear_distance)
         driver = result.driver[2].driver
         radii: dict[str, float] = {}
         for _, _, zone in result.segments:
@@ -236,6 +250,8 @@ def run_job(scenario: Scenario, progress: Callable[[int, int], None] | None = No
                 standard_error_m=driver.standard_error,
                 object_radii=radii,
                 geojson=geojson,
+                clear_distance_m=area.clear_distance,
+                stop_work_wind_m_s=stop_wind,
             )
         )
 

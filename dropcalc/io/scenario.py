@@ -36,7 +36,7 @@ _KEYS: dict[str, set[str]] = {
     },  # fmt: skip
     "work_area": {
         "name", "release", "release_speed", "release_angle", "roof_pitch", "roof_length",
-        "friction", "rolling", "edge",
+        "friction", "rolling", "edge", "clear_distance",
     },  # fmt: skip
     "edge": {"name", "points", "height"},
     # An object is one row of a ``dropcalc batch`` list: a library id, or mass with drag_area,
@@ -55,6 +55,8 @@ class WorkArea:
     name: str
     release: Any  # dropcalc.physics.release.Release
     site: Any  # dropcalc.analysis.plan.Site (outline shared, this area's edges)
+    #: Clear distance available from the work edge (barricade line) [m], or None.
+    clear_distance: float | None = None
 
 
 @dataclass(frozen=True)
@@ -380,6 +382,14 @@ def load_scenario(path: Path) -> Scenario:
             lambda m=mode, v=release_speed, t=angle, extra=slide: Release(m, v, t, **extra),
             fields,
         )
+        clear_distance = None
+        if "clear_distance" in raw:
+            clear_distance = quantity(raw["clear_distance"], "length", f"{key}.clear_distance")
+            if not (0.0 < clear_distance <= 5000.0):
+                raise where.error(
+                    f"{key}.clear_distance",
+                    f"must be a distance above 0 and at most 5000 m; got {clear_distance:g} m",
+                )
         raw_edges = raw.get("edge")
         if not isinstance(raw_edges, list) or not raw_edges:
             raise where.error(f"{key}.edge", "expected one or more [[work_area.edge]] tables")
@@ -407,7 +417,7 @@ def load_scenario(path: Path) -> Scenario:
             )
         site = model(f"{key}", lambda e=edges: Site(outline, tuple(e)), {"outline": "site.outline"})
         name = text_of(raw.get("name", f"work area {a}"), f"{key}.name")
-        areas.append(WorkArea(name, release, site))
+        areas.append(WorkArea(name, release, site, clear_distance))
 
     library = load_library()
     from dropcalc.analysis.fall import check_object

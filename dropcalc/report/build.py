@@ -123,6 +123,8 @@ def build_report(job: JobResult, figure_dir: Path) -> ReportData:
                 standard_error_m=area.standard_error_m,
                 driver_warnings=area.driver_warnings,
                 beyond_building_m2=area.zone.area.beyond_building_m2,
+                clear_distance_m=area.clear_distance_m,
+                stop_work_wind_m_s=area.stop_work_wind_m_s,
                 segments=[
                     {
                         "edge": name,
@@ -314,6 +316,8 @@ def summary_json(job: JobResult, pdf: Path) -> dict[str, Any]:
                 "margin_m": scenario.margin,
                 "driver_warnings": list(a.driver_warnings),
                 "beyond_building_m2": a.zone.area.beyond_building_m2,
+                "clear_distance_m": a.clear_distance_m,
+                "stop_work_wind_m_s": a.stop_work_wind_m_s,
             }
             for a in job.work_areas
         ],

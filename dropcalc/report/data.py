@@ -58,6 +58,9 @@ class WorkAreaResult:
     beyond_building_m2 : float
         Part of ``area_m2`` reached from the work edges only over or around the building
         (:func:`dropcalc.analysis.plan.beyond_building`). [m^2]
+    clear_distance_m, stop_work_wind_m_s : float or None
+        The clear distance the scenario gives for the area and the highest mean wind at 10 m
+        in which the zone stays within it (0: too small even in still air). [m], [m/s]
     """
 
     name: str
@@ -78,6 +81,8 @@ class WorkAreaResult:
     plan_png: Path
     driver_warnings: tuple[str, ...] = ()
     beyond_building_m2: float = 0.0
+    clear_distance_m: float | None = None
+    stop_work_wind_m_s: float | None = None
 
 
 @dataclass(frozen=True)

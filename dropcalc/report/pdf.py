@@ -427,6 +427,30 @@ def _title_block(data: ReportData, styles: dict[str, ParagraphStyle]) -> list[Fl
     ]
 
 
+def _stop_work(area: WorkAreaResult) -> list[tuple[str, str]]:
+    """The stop-work line of a work area that has a clear distance available, else nothing."""
+    if area.clear_distance_m is None or area.stop_work_wind_m_s is None:
+        return []
+    available = keep_clear(area.clear_distance_m)
+    if area.stop_work_wind_m_s <= 0:
+        return [
+            (
+                "Stop work",
+                f"the {available}\u00a0m clear distance available is too small even in still "
+                f"air: keep {keep_clear(area.radius_m)}\u00a0m clear or work lower",
+            )
+        ]
+    holds = area.radius_m <= area.clear_distance_m
+    return [
+        (
+            "Stop work",
+            f"above a mean wind of {sig(area.stop_work_wind_m_s)}\u00a0m/s at 10\u00a0m: "
+            f"beyond it the zone needs more than the {available}\u00a0m clear distance "
+            "available" + ("" if holds else " (already more in the wind of this report)"),
+        )
+    ]
+
+
 def _work_area_box(
     area: WorkAreaResult, data: ReportData, styles: dict[str, ParagraphStyle]
 ) -> Flowable:
@@ -453,6 +477,7 @@ def _work_area_box(
             ),
         ),
         ("Wind", data.wind_text),
+        *_stop_work(area),
         ("Driven by", f"{area.driving_object}, at {area.driving_edge}"),
         (
             "Release",
