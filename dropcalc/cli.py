@@ -183,8 +183,18 @@ WindKindOpt = Annotated[SpeedKind, typer.Option(help="Whether --wind is a mean s
 WindFromOpt = Annotated[
     str | None,
     typer.Option(
-        help="Compass direction the wind blows from (deg). Default: blowing the object straight "
-        "out from the edge, away from the structure."
+        help='Direction the wind blows from: a compass point ("SW", "WSW") or degrees '
+        'clockwise from north ("225"). Default: blowing the object straight out from the '
+        "edge, away from the structure."
+    ),
+]
+WindMeasuredOpt = Annotated[
+    str,
+    typer.Option(
+        "--wind-measured",
+        help="Where --wind was measured or forecast: 'site' (over the site's own terrain) or "
+        "'open-country' (a forecast or airport value: EN 1991-1-4 category II, converted to the "
+        "site's --terrain with the terrain factor k_r = 0.19 (z0/0.05 m)^0.07).",
     ),
 ]
 WindProfileOpt = Annotated[ProfileName | None, typer.Option(help="Wind profile with height.")]
@@ -228,7 +238,8 @@ def _environment(
     wind_kind: SpeedKind,
     wind_from: str | None,
     wind_profile: ProfileName | None,
-    wind_exponent: float | None,
+    wind_measured: str = "site",
+    wind_exponent: float | None = None,
     roughness: str | None,
     terrain: str | None,
     elevation: str,
@@ -242,7 +253,8 @@ def _environment(
     """Air, wind and gravity from the shared options (raises InputError)."""
     from dropcalc.physics.atmosphere import air_state
     from dropcalc.physics.gravity import gravity as local_g
-    from dropcalc.physics.wind import wind_spec
+    from dropcalc.physics.wind import wind_at_site, wind_spec
+    from dropcalc.units import parse_direction
 
     if not math.isfinite(edge_azimuth):
         raise InputError(
@@ -260,12 +272,13 @@ def _environment(
     wind_model = wind_spec(
         float(_q(wind, "speed", "--wind")),
         kind=wind_kind.value,
-        from_direction=_q(wind_from, "angle", "--wind-from") if wind_from else default_from,
+        from_direction=parse_direction(wind_from, "--wind-from") if wind_from else default_from,
         profile=wind_profile.value if wind_profile else None,
         exponent=wind_exponent,
         roughness_length=_q(roughness, "length", "--roughness"),
         terrain=terrain,
     )
+    wind_model = wind_at_site(wind_model, wind_measured.strip().lower())
     return _Environment(air, wind_model, local_g(latitude, elevation_m))
 
 
@@ -355,6 +368,7 @@ def fall(
     wind_exponent: WindExponentOpt = None,
     roughness: RoughnessOpt = None,
     terrain: TerrainOpt = None,
+    wind_measured: WindMeasuredOpt = "site",
     elevation: ElevationOpt = "0",
     air_temp: AirTempOpt = None,
     pressure: PressureOpt = None,
@@ -401,6 +415,7 @@ def fall(
 
         env = _environment(
             wind=wind, wind_kind=wind_kind, wind_from=wind_from, wind_profile=wind_profile,
+            wind_measured=wind_measured,
             wind_exponent=wind_exponent, roughness=roughness, terrain=terrain,
             elevation=elevation, air_temp=air_temp, pressure=pressure, humidity=humidity,
             air_density=air_density, latitude=latitude, edge_azimuth=edge_azimuth,
@@ -483,6 +498,7 @@ def batch(
     wind_exponent: WindExponentOpt = None,
     roughness: RoughnessOpt = None,
     terrain: TerrainOpt = None,
+    wind_measured: WindMeasuredOpt = "site",
     elevation: ElevationOpt = "0",
     air_temp: AirTempOpt = None,
     pressure: PressureOpt = None,
@@ -517,6 +533,7 @@ def batch(
 
         env = _environment(
             wind=wind, wind_kind=wind_kind, wind_from=wind_from, wind_profile=wind_profile,
+            wind_measured=wind_measured,
             wind_exponent=wind_exponent, roughness=roughness, terrain=terrain,
             elevation=elevation, air_temp=air_temp, pressure=pressure, humidity=humidity,
             air_density=air_density, latitude=latitude, edge_azimuth=edge_azimuth,
@@ -641,6 +658,7 @@ def zone(
     wind_exponent: WindExponentOpt = None,
     roughness: RoughnessOpt = None,
     terrain: TerrainOpt = None,
+    wind_measured: WindMeasuredOpt = "site",
     elevation: ElevationOpt = "0",
     air_temp: AirTempOpt = None,
     pressure: PressureOpt = None,
@@ -678,6 +696,7 @@ def zone(
 
         env = _environment(
             wind=wind, wind_kind=wind_kind, wind_from=wind_from, wind_profile=wind_profile,
+            wind_measured=wind_measured,
             wind_exponent=wind_exponent, roughness=roughness, terrain=terrain,
             elevation=elevation, air_temp=air_temp, pressure=pressure, humidity=humidity,
             air_density=air_density, latitude=latitude, edge_azimuth=edge_azimuth,

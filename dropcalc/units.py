@@ -599,3 +599,34 @@ def format_quantity(value_si: float, kind: str, system: str = "si", digits: int 
     if not label:
         return text
     return f"{text}{label}" if label == "°" else f"{text} {label}"
+
+
+def parse_direction(value: str | float | int, field: str) -> float:
+    """A compass direction in degrees clockwise from north, from "SW", "WSW", "225" or "225 deg".
+
+    The 16 points of the compass (N, NNE, NE, ... NNW; any case) name 0, 22.5, 45, ... 337.5°;
+    anything else is read as an angle (a bare number is degrees here, as compass bearings are).
+
+    Raises
+    ------
+    InputError
+        Naming ``field`` when the value is neither a compass point nor an angle.
+    """
+    from dropcalc.physics.wind import COMPASS_POINTS
+
+    if isinstance(value, str):
+        text = value.strip().upper().replace("-", "").replace(" ", "")
+        if text in COMPASS_POINTS:
+            return COMPASS_POINTS[text]
+        try:
+            return float(value.strip())
+        except ValueError:
+            pass
+        try:
+            return parse_quantity(value, "angle", field)
+        except InputError:
+            raise InputError(
+                f"{field}: could not read {_show(value)} as a direction: give a compass point "
+                '(N, NE, ENE, SW, WSW ...) or an angle clockwise from north (e.g. "225", "225 deg")'
+            ) from None
+    return parse_quantity(value, "angle", field)

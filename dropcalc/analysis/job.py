@@ -269,7 +269,7 @@ def run_job(scenario: Scenario, progress: Callable[[int, int], None] | None = No
         object_rows=rows,
         object_table_height_m=top_height,
         controls=controls,
-        warnings=_warnings(rows),
+        warnings=_warnings(rows) + _wind_warnings(scenario),
         wind_outward=outward,
         wind_toward_deg=None if outward else (scenario.wind.from_direction_deg + 180.0) % 360.0,
         gust_speed_10m=gust_speed(scenario.wind),
@@ -370,6 +370,17 @@ def _row_controls(row: dict[str, Any], rules: Any) -> tuple[str, ...]:
 def _energy(row: dict[str, Any] | None) -> float:
     value = None if row is None else row.get("impact_energy_max_j")
     return float(value) if isinstance(value, (int, float)) and math.isfinite(value) else -math.inf
+
+
+def _wind_warnings(scenario: Scenario) -> tuple[str, ...]:
+    """A warning when the wind has no terrain (the same speed at every height)."""
+    if scenario.wind.speed_10m > 0 and scenario.wind.profile == "uniform":
+        return (
+            "No terrain given for the wind: the same speed is taken at every height, while over "
+            "real ground it grows with height. Give wind.terrain (an EN 1991-1-4 category) and "
+            'say where the speed was measured (wind.measured = "open-country" for a forecast).',
+        )
+    return ()
 
 
 def _warnings(rows: list[dict[str, Any]]) -> tuple[str, ...]:

@@ -30,7 +30,7 @@ _KEYS: dict[str, set[str]] = {
         "elevation", "air_temperature", "pressure", "humidity", "air_density", "latitude",
         "ground", "origin", "outline",
     },
-    "wind": {"speed", "kind", "from", "terrain", "profile", "exponent", "roughness"},
+    "wind": {"speed", "kind", "from", "terrain", "profile", "exponent", "roughness", "measured"},
     "policy": {
         "confidence", "margin", "levels", "rules_file", "precision", "seed", "contact_tilt",
     },  # fmt: skip
@@ -83,6 +83,10 @@ class Scenario:
     rules: tuple[Any, ...]
     library: Any
     notes: list[str] = field(default_factory=list)
+    #: Where the wind speed was measured: "site" or "open-country" (converted to the site).
+    wind_measured: str = "site"
+    #: The wind's basis in words (measured where, converted how; or no terrain given).
+    wind_basis: str = ""
 
 
 class ScenarioError(InputError):
@@ -177,8 +181,8 @@ def load_scenario(path: Path) -> Scenario:
     from dropcalc.physics.gravity import gravity as local_gravity
     from dropcalc.physics.release import DEFAULT_ROOF_FRICTION, Release
     from dropcalc.physics.scatter import CONTACT_TILT_MAX, CONTACT_TILT_RANGE, surface
-    from dropcalc.physics.wind import wind_spec
-    from dropcalc.units import parse_quantity
+    from dropcalc.physics.wind import wind_at_site, wind_spec
+    from dropcalc.units import parse_direction, parse_quantity
 
     path = Path(path)
     try:
@@ -282,7 +286,9 @@ def load_scenario(path: Path) -> Scenario:
     speed = quantity(wind_table.get("speed", 0), "speed", "wind.speed")
     wind_from_given = "from" in wind_table
     from_direction = (
-        quantity(wind_table["from"], "angle", "wind.from") if wind_from_given else 270.0
+        model("wind.from", lambda: parse_direction(wind_table["from"], "wind.from"))
+        if wind_from_given
+        else 270.0
     )
     wind = model(
         "wind",
@@ -306,6 +312,23 @@ def load_scenario(path: Path) -> Scenario:
             "unknown": "wind.terrain", "minimum_height": "wind.roughness",
         },
     )  # fmt: skip
+
+    measured = text_of(wind_table.get("measured", "site"), "wind.measured").strip().lower()
+    given_speed = wind.speed_10m
+    wind = model("wind.measured", lambda: wind_at_site(wind, measured))
+    if wind.speed_10m > 0 and wind.profile == "uniform":
+        wind_basis = (
+            "no terrain given: the same wind speed is taken at every height (over real ground "
+            "it grows with height); give wind.terrain"
+        )
+    elif measured == "open-country" and given_speed > 0:
+        wind_basis = (
+            f"given as {given_speed:.3g} m/s at 10 m in open country (EN 1991-1-4 category II), "
+            f"converted to {wind.speed_10m:.3g} m/s at 10 m over the site's terrain "
+            "(roughness factor c_r = k_r ln(z/z0), k_r = 0.19 (z0/0.05 m)^0.07)"
+        )
+    else:
+        wind_basis = "given at 10 m over the site's own terrain" if given_speed > 0 else ""
 
     policy = table("policy")
     confidence = number(policy.get("confidence", 0.99), "policy.confidence")
@@ -483,4 +506,6 @@ def load_scenario(path: Path) -> Scenario:
         levels=levels,
         rules=rules,
         library=library,
+        wind_measured=measured,
+        wind_basis=wind_basis,
     )

@@ -883,3 +883,110 @@ def wind_spec(
         minimum_height=minimum_height,
         terrain_key=None if terrain_class is None else terrain_class.key,
     )
+
+
+#: Where a wind speed was measured or forecast: over the site's own terrain, or in open
+#: country (EN 1991-1-4 terrain category II, z0 = 0.05 m, the basis of forecasts and of the
+#: basic wind speed).
+WIND_MEASURED = ("site", "open-country")
+
+#: Roughness length and minimum height of EN 1991-1-4 terrain category II (Table 4.1). [m]
+OPEN_COUNTRY_ROUGHNESS = 0.05
+OPEN_COUNTRY_MINIMUM_HEIGHT = 2.0
+
+
+def open_country_factor(
+    roughness_length: float, minimum_height: float, kind: SpeedKind = "mean"
+) -> float:
+    """Speed at 10 m over a site's terrain per unit speed at 10 m in open country [-].
+
+    For a mean speed, the ratio of the EN 1991-1-4 roughness factors at 10 m,
+
+        c_r,site(10) / c_r,II(10),   c_r(z) = k_r ln(max(z, z_min) / z0),
+        k_r = 0.19 (z0 / z0,II)^0.07,  z0,II = 0.05 m
+
+    ([EN1991-1-4] eq. 4.4 and 4.5); for a gust (peak) speed, the ratio of the peak velocities
+    c_r(10) sqrt(1 + 7 I_v(10)) with I_v = 1 / ln(max(z, z_min) / z0) (eq. 4.7 and 4.8, k_I = 1,
+    c_0 = 1). Both terrains see the same basic wind speed.
+
+    Parameters
+    ----------
+    roughness_length, minimum_height : float
+        The site's z0 and z_min. [m]
+    kind : {"mean", "gust"}
+
+    Returns
+    -------
+    float
+        The factor (0.54 for category IV, mean; 1 for category II). [-]
+    """
+    ten = np.array([10.0])
+    site = float(roughness_factor(ten, roughness_length, minimum_height)[0])
+    open_country = float(
+        roughness_factor(ten, OPEN_COUNTRY_ROUGHNESS, OPEN_COUNTRY_MINIMUM_HEIGHT)[0]
+    )
+    if kind == "gust":
+        site_iv = 1.0 / math.log(max(10.0, minimum_height) / roughness_length)
+        open_iv = 1.0 / math.log(max(10.0, OPEN_COUNTRY_MINIMUM_HEIGHT) / OPEN_COUNTRY_ROUGHNESS)
+        site *= math.sqrt(1.0 + 7.0 * site_iv)
+        open_country *= math.sqrt(1.0 + 7.0 * open_iv)
+    return site / open_country
+
+
+def wind_at_site(wind: WindSpec, measured: str) -> WindSpec:
+    """The wind over the site's terrain from a speed measured ``"site"`` or ``"open-country"``.
+
+    Raises
+    ------
+    InputError
+        For an unknown ``measured``, or ``"open-country"`` without a log-law profile (an EN
+        terrain category or a roughness length) to convert to.
+    """
+    from dataclasses import replace
+
+    if measured not in WIND_MEASURED:
+        raise InputError(
+            f"wind measured must be one of {', '.join(WIND_MEASURED)}; got {measured!r}"
+        )
+    if measured == "site" or wind.speed_10m == 0:
+        return wind
+    if wind.profile != "log" or wind.roughness_length is None:
+        raise InputError(
+            "a wind measured in open country is converted to the site with the EN 1991-1-4 "
+            "terrain factor: give the site's terrain (an EN category en-0 ... en-iv, or a "
+            "roughness length)"
+        )
+    factor = open_country_factor(wind.roughness_length, wind.minimum_height, wind.kind)
+    return replace(wind, speed_10m=wind.speed_10m * factor)
+
+
+#: The 16 points of the compass and the direction each names, clockwise from north. [deg]
+COMPASS_POINTS = {
+    name: 22.5 * index
+    for index, name in enumerate(
+        [
+            "N",
+            "NNE",
+            "NE",
+            "ENE",
+            "E",
+            "ESE",
+            "SE",
+            "SSE",
+            "S",
+            "SSW",
+            "SW",
+            "WSW",
+            "W",
+            "WNW",
+            "NW",
+            "NNW",
+        ]
+    )
+}
+
+
+def compass_point(direction_deg: float) -> str:
+    """The nearest of the 16 compass points to a direction (225 -> "SW")."""
+    index = round((float(direction_deg) % 360.0) / 22.5) % 16
+    return list(COMPASS_POINTS)[index]

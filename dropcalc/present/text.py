@@ -350,6 +350,9 @@ def zone_json(result: object, limits: dict | None = None) -> dict:
         ],
         "statement": zone_statement(r),
         "not_modelled": "deflection off the structure (scaffold, facade, balconies)",
+        "wind_warning": (
+            NO_TERRAIN_WARNING if s.wind.speed_10m > 0 and s.wind.profile == "uniform" else None
+        ),
         "caution": CAUTION_SHORT,
     }
     if limits is not None:
@@ -439,6 +442,14 @@ def site_json(site_result: object) -> dict:
     }  # fmt: skip
 
 
+#: Said when a wind is given without a terrain (or profile): it is then uniform with height.
+NO_TERRAIN_WARNING = (
+    "WARNING: no --terrain given: the wind is taken as the same speed at every height, while "
+    "over real ground it grows with height. Give --terrain (en-0 ... en-iv) and, for a forecast "
+    "or airport value, --wind-measured open-country."
+)
+
+
 def render_zone(
     result: object,
     system: str = "si",
@@ -450,6 +461,8 @@ def render_zone(
     s = r.settings
     d = r.driver
     lines = ["dropcalc zone: exclusion distance from the work edge", ""]
+    if s.wind.speed_10m > 0 and s.wind.profile == "uniform":
+        lines.extend(textwrap.wrap(NO_TERRAIN_WARNING, 90))
     for z in r.objects:
         if z.obj.glides:
             lines.extend(textwrap.wrap(

@@ -166,6 +166,7 @@ def build_report(job: JobResult, figure_dir: Path) -> ReportData:
         ground_text=scenario.ground.label,
         inputs=[
             ("Wind profile", wind.describe().split("; ", 1)[-1]),
+            ("Wind measured", scenario.wind_basis or "still air"),
             ("Gust used for the worst case", f"{job.gust_speed_10m:.3g} m/s at 10 m"),
             ("Gravity", f"{scenario.gravity:.4g} m/s²"),
             ("Margin added", f"{scenario.margin:.3g} m"),
@@ -212,14 +213,14 @@ def _wind_text(job: JobResult) -> str:
     wind = job.scenario.wind
     if wind.speed_10m == 0:
         return "still air"
-    from dropcalc.physics.wind import terrain
+    from dropcalc.physics.wind import compass_point, terrain
 
     profiles = {"uniform": "uniform with height", "power": "power law", "log": "log law"}
     profile = terrain(wind.terrain_key).label if wind.terrain_key else profiles[wind.profile]
     direction = (
         "direction not given: each edge checked with the wind blowing straight out from it"
         if job.wind_outward
-        else f"from {wind.from_direction_deg:.0f}°"
+        else f"from {wind.from_direction_deg:.0f}° ({compass_point(wind.from_direction_deg)})"
     )
     return (
         f"{wind.speed_10m:.3g} m/s {wind.kind} at 10 m (gust {job.gust_speed_10m:.3g} m/s), "
