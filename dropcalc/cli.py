@@ -411,6 +411,7 @@ def fall(
     """Solve one object falling from one release: impact speed, energy, time and drift."""
     try:
         from dropcalc.analysis.fall import FallCase, solve_fall
+        from dropcalc.physics.plate import plate_dimensions
         from dropcalc.present.text import render_fall
 
         env = _environment(
@@ -468,6 +469,7 @@ def fall(
             object_id=obj.id if obj is not None else None,
             object_name=obj.name if obj is not None else None,
             glides=bool(obj.glides) if obj is not None else False,
+            plate=plate_dimensions(obj.shape, obj.dimensions) if obj is not None else None,
         )
         if plot is not None:
             require_suffix(plot, (".png", ".svg"), "--plot")

@@ -117,6 +117,7 @@ def test_aerodynamic_power_is_never_positive_in_still_air() -> None:
     state[7] = rng.normal(0, 20, n)
     chord, span, mass, rho = 1.22, 1.22, 9.8, 1.2
     p = np.zeros((18, n))
+    p[17] = 1.0  # free to rotate
     p[0] = rho * chord * span / (2 * mass)
     p[1] = helmbold_lift_slope(1.0)
     p[2] = plate_normal_drag_coefficient(1.0)

@@ -27,6 +27,7 @@ from dropcalc.model.reference_levels import DEFAULT_LEVEL_KEYS, REFERENCE_LEVELS
 from dropcalc.physics.atmosphere import AirState, air_state
 from dropcalc.physics.drag import drag_parameter
 from dropcalc.physics.impact import impact_from_solution
+from dropcalc.physics.plate import plate_dimensions
 from dropcalc.physics.release import Release, initial_velocity
 from dropcalc.physics.trajectory import FallSolution, solve_falls
 from dropcalc.physics.wind import WindSpec, wind_spec
@@ -117,6 +118,8 @@ class Item:
     height: float
     glides: bool
     fragile: bool
+    #: (length, width, thickness) [m] of a sheet flown by the plate model, else None.
+    plate: tuple[float, float, float] | None = None
     #: True when the row gave its own height; False when it took the list's default (which a
     #: report may then set per work area).
     height_given: bool = False
@@ -233,6 +236,7 @@ def _resolve_row(
     mass = quantity("mass")
     drag_area = quantity("drag_area")
     glides = fragile = False
+    plate = None
     name = label
     if object_id:
         if mass is not None or drag_area is not None or _cell(record, "shape"):
@@ -243,6 +247,7 @@ def _resolve_row(
         mass, area_min, area_max = obj.mass, obj.drag_area_min, obj.drag_area_max
         contact = contact if contact is not None else obj.contact_area
         glides, fragile, name = obj.glides, obj.fragile, obj.name
+        plate = plate_dimensions(obj.shape, obj.dimensions)
     else:
         if mass is None:
             raise InputError("mass is missing (or give a library id)")
@@ -265,6 +270,7 @@ def _resolve_row(
             bounds = drag_bounds(shape, **dims)
             area_min, area_max = float(bounds.drag_area_min), float(bounds.drag_area_max)
             glides = bool(bounds.glides)
+            plate = plate_dimensions(shape, {k: float(v) for k, v in dims.items()})
         else:
             raise InputError("drag is missing: give drag_area, or shape with its dimensions")
     return Item(
@@ -280,6 +286,7 @@ def _resolve_row(
         height=float(height),
         glides=glides,
         fragile=fragile,
+        plate=plate,
         height_given=own_height is not None,
     )
 
@@ -583,7 +590,7 @@ def _solve_chunk(items: Sequence[Item], settings: BatchSettings) -> list[dict[st
                 f"carried away by the wind: still airborne {CARRIED_AWAY_DISTANCE / 1000:g} km "
                 "downwind, no landing can be given"
             )
-        if item.glides:
+        if item.glides and item.plate is None:
             warnings.append("sheet or plate: can glide far in wind; drift not conservative")
         if (
             settings.wind.speed_10m > 0
@@ -624,10 +631,55 @@ def _solve_chunk(items: Sequence[Item], settings: BatchSettings) -> list[dict[st
         )
         row["fragile"] = item.fragile
         row["glides"] = item.glides
+        row["flight_model"] = "plate" if item.plate is not None else "point mass"
+        row["lift_off_speed_m_s"] = None
+        if item.plate is not None:
+            _plate_row(row, item, settings)
         row["warnings"] = "; ".join(warnings)
         row["error"] = ""
         out.append(row)
     return out
+
+
+def _plate_row(row: dict[str, Any], item: Item, settings: BatchSettings) -> None:
+    """Replace a sheet's point-mass figures by the plate model's over its attitudes.
+
+    The attitude grid of :func:`dropcalc.analysis.plate_flight.attitude_sweep` at the list's
+    wind: the highest impact energy and speed, the shortest and longest drift and fall time.
+    Adds the lift-off wind of the sheet lying on a roof
+    (:func:`dropcalc.physics.plate.lift_off_speed`). The safe heights stay the point mass's.
+    """
+    from dropcalc.analysis.plate_flight import attitude_sweep
+    from dropcalc.physics.plate import lift_off_speed
+
+    assert item.plate is not None
+    v0 = np.asarray(
+        initial_velocity(settings.release, settings.edge_azimuth, settings.gravity), dtype=float
+    )
+    solution, _ = attitude_sweep(
+        item.plate, item.mass, item.height, settings.air.density, settings.wind,
+        np.array([settings.wind.speed_10m]), settings.edge_azimuth, v0, settings.gravity,
+    )  # fmt: skip
+    length, width, _ = item.plate
+    row["lift_off_speed_m_s"] = float(
+        lift_off_speed(item.mass, length * width, settings.air.density, settings.gravity)
+    )
+    if not np.all(solution.landed):
+        row["drift_max_m"] = None  # carried away at some attitude: no bound
+        return
+    speed = np.sqrt(np.sum(solution.velocity**2, axis=0))
+    drift = np.hypot(solution.position[0], solution.position[1])
+    energy = 0.5 * item.mass * speed**2
+    row["impact_speed_max_m_s"] = float(speed.max())
+    row["impact_speed_min_m_s"] = float(speed.min())
+    row["impact_energy_max_j"] = float(energy.max())
+    row["impact_energy_min_j"] = float(energy.min())
+    if item.contact_area is not None:
+        row["energy_per_contact_area_j_cm2"] = float(energy.max()) / item.contact_area / 1e4
+    row["fall_time_s"] = float(solution.time.min())
+    row["fall_time_max_s"] = float(solution.time.max())
+    row["drift_min_m"] = float(drift.min())
+    row["drift_max_m"] = float(drift.max())
 
 
 def error_rows(errors: Sequence[RowError]) -> list[dict[str, Any]]:

@@ -104,6 +104,9 @@ class FallCase:
         The library object, when the inputs came from it.
     glides : bool
         The object is a sheet or plate that can glide in wind.
+    plate : tuple of float or None
+        (length, width, thickness) [m] of a sheet flown by the plate model
+        (:mod:`dropcalc.physics.plate`); None flies a point mass.
     """
 
     mass: float
@@ -119,6 +122,7 @@ class FallCase:
     object_id: str | None = None
     object_name: str | None = None
     glides: bool = False
+    plate: tuple[float, float, float] | None = None
 
     def __post_init__(self) -> None:
         check_object(self.mass, self.drag_area, self.height, self.contact_area, self.drag_area_max)
@@ -223,10 +227,30 @@ class FallResult:
                 if self.gust is None
                 else value((self.gust.impact_max_drag or self.gust.impact).drift)
             ),
+            "flight_model": self.flight_model,
+            "lift_off_speed_m_s": self.lift_off_speed,
             "warnings": list(self.warnings),
             "caution": CAUTION_SHORT,
         }
         return out
+
+    @property
+    def flight_model(self) -> str:
+        """Which flight model the result comes from, in words."""
+        from dropcalc.analysis.plate_flight import describe_model
+
+        return describe_model(self.case.plate)
+
+    @property
+    def lift_off_speed(self) -> float | None:
+        """Wind speed at roof level above which the sheet lying flat lifts off [m/s], or None."""
+        if self.case.plate is None:
+            return None
+        from dropcalc.physics.plate import lift_off_speed
+
+        length, width, _ = self.case.plate
+        case = self.case
+        return float(lift_off_speed(case.mass, length * width, case.air.density, case.gravity))
 
 
 def wind_field(wind: WindSpec, speeds: np.ndarray) -> WindField:
@@ -285,6 +309,8 @@ def solve_fall(case: FallCase) -> FallResult:
     )
     impacts = [_pick(impact, i) for i in range(len(speeds))]
     max_drag = [_pick(impact, n + i) if case.drag_area_max is not None else None for i in range(n)]
+    if case.plate is not None:  # a sheet: the plate model over its attitudes replaces both
+        impacts, max_drag = _plate_impacts(case, np.array(speeds), v0)
     warnings: list[str] = []
     labels = [case.wind.kind] + (["estimated gust"] if gust_speed is not None else [])
     for label, impact_i, impact_max in zip(labels, impacts, max_drag, strict=True):
@@ -300,10 +326,15 @@ def solve_fall(case: FallCase) -> FallResult:
     vt = float(slowest.terminal_speed[0])
     if case.wind.speed_10m > 0 and vt < case.wind.speed_10m:
         warnings.append(
-            f"windborne: terminal speed {vt:.2g} m/s is below the wind speed; light, flat or "
-            "sheet-like objects can glide and fly further than this point-mass model predicts"
+            f"windborne: terminal speed {vt:.2g} m/s is below the wind speed; "
+            + (
+                "the plate model flies it, but a gust can carry it further than any zone"
+                if case.plate is not None
+                else "light, flat or sheet-like objects can glide and fly further than this "
+                "point-mass model predicts"
+            )
         )
-    if case.glides:
+    if case.glides and case.plate is None:  # a disc or a custom sheet the plate model lacks
         from dropcalc.physics.shapes import GLIDE_WARNING
 
         warnings.append(GLIDE_WARNING)
@@ -312,6 +343,36 @@ def solve_fall(case: FallCase) -> FallResult:
     if gust_speed is not None:
         gust = WindCase("estimated gust", gust_speed, impacts[1], max_drag[1])
     return FallResult(case, given, gust, tuple(warnings))
+
+
+def _plate_impacts(
+    case: FallCase, speeds: np.ndarray, v0: np.ndarray
+) -> tuple[list[Impact], list[Impact]]:
+    """Per wind speed: the plate model's impacts at the two bounding attitudes.
+
+    The attitude of the highest impact energy and the one of the longest drift, from
+    :func:`dropcalc.analysis.plate_flight.attitude_sweep`.
+    """
+    from dropcalc.analysis.plate_flight import attitude_sweep, face_on_drag_parameter
+
+    assert case.plate is not None
+    solution, lane_speeds = attitude_sweep(
+        case.plate, case.mass, case.height, case.air.density, case.wind, speeds,
+        case.edge_azimuth, v0, case.gravity,
+    )  # fmt: skip
+    k = face_on_drag_parameter(case.plate, case.mass, case.air.density)
+    impact = impact_from_solution(
+        solution, case.mass, np.full(lane_speeds.size, k), case.gravity,
+        wind_field(case.wind, lane_speeds), case.contact_area,
+    )  # fmt: skip
+    per_speed = lane_speeds.size // speeds.size
+    energy = np.where(impact.landed, impact.kinetic_energy, np.inf).reshape(speeds.size, -1)
+    drift = np.where(impact.landed, impact.drift, np.inf).reshape(speeds.size, -1)
+    highest, longest = [], []
+    for i in range(speeds.size):
+        highest.append(_pick(impact, i * per_speed + int(np.argmax(energy[i]))))
+        longest.append(_pick(impact, i * per_speed + int(np.argmax(drift[i]))))
+    return highest, longest
 
 
 def _pick(impact: Impact, i: int) -> Impact:

@@ -386,12 +386,23 @@ def _wind_warnings(scenario: Scenario) -> tuple[str, ...]:
 def _warnings(rows: list[dict[str, Any]]) -> tuple[str, ...]:
     """Glide and windborne warnings for the object table's rows."""
     warnings = []
-    gliders = [str(row.get("label")) for row in rows if row.get("glides")]
-    if gliders:
+    gliders = [
+        str(row.get("label"))
+        for row in rows
+        if row.get("glides") and row.get("flight_model") != "plate"
+    ]
+    if gliders:  # flat objects the plate model does not cover (discs, given drag areas)
         warnings.append(
             f"Sheets and plates ({', '.join(gliders)}) can glide far downwind: the computed "
             "zone is not conservative for them. Secure them against wind before work starts."
         )
+    for row in rows:
+        lift_off = row.get("lift_off_speed_m_s")
+        if lift_off:
+            warnings.append(
+                f"{row.get('label')}: lying flat on a roof it lifts off above about "
+                f"{lift_off:.0f} m/s at roof level (gust): weigh it down or store it flat."
+            )
     windborne = [str(row.get("label")) for row in rows if "windborne" in str(row.get("warnings"))]
     if windborne:
         warnings.append(

@@ -88,6 +88,9 @@ class ZoneObject:
         Round item that rolls rather than slides after landing.
     glides : bool
         Sheet or plate that can glide in wind (the point-mass result is not conservative).
+    plate : tuple of float or None
+        (length, width, thickness) [m] of a sheet flown by the plate model
+        (:mod:`dropcalc.analysis.plate_flight`); None for a point mass.
     """
 
     name: str
@@ -99,6 +102,7 @@ class ZoneObject:
     fragile: bool = False
     rolls: bool = False
     glides: bool = False
+    plate: tuple[float, float, float] | None = None
 
     def __post_init__(self) -> None:
         from dropcalc.analysis.fall import check_object
@@ -441,6 +445,19 @@ def sample_object(
     lowest_cos = math.cos(math.radians(_tilt_max(obj, settings)))
     tilt = np.degrees(np.arccos(np.clip(rng.uniform(lowest_cos, 1.0, n), -1.0, 1.0)))
     tilt_azimuth = rng.uniform(0.0, 360.0, n)
+    if obj.plate is not None:  # a sheet: its attitude and spin are sampled too
+        from dropcalc.analysis.plate_flight import land_plates, sample_attitudes
+
+        spread = unc.drag_coefficient_spread
+        cd_factor = rng.uniform(1 - spread, 1 + spread, n)  # scales every plate coefficient
+        attitude = sample_attitudes(obj.plate, n, rng, settings.gravity)
+        solution = land_plates(
+            obj.plate, obj.mass, density * cd_factor, wind_speed, toward, velocity0, settings,
+            *attitude,
+        )  # fmt: skip
+        return _rest_after_landing(
+            solution, e_n, e_t, friction, rolling, tilt, tilt_azimuth, obj, settings
+        )
     return _rest_positions(
         np.full(n, obj.mass), drag_area, density, wind_speed, toward, velocity0, e_n, e_t,
         friction, rolling, tilt, tilt_azimuth, obj, settings,
@@ -484,6 +501,10 @@ def envelope_distance(obj: ZoneObject, settings: ZoneSettings) -> float:
     """
     from dataclasses import replace
 
+    if obj.plate is not None:  # a sheet: the attitude is searched too
+        from dropcalc.analysis.plate_flight import plate_envelope_distance
+
+        return plate_envelope_distance(obj, settings, _farthest_rest) + ENVELOPE_SEARCH_ALLOWANCE
     unc = settings.uncertainty
     _, gust = _mean_and_gust(settings)
     release = settings.release
@@ -694,6 +715,8 @@ def compute_zone(
         carried = float(np.mean(np.isnan(distance)))
         worst = envelope_distance(obj, settings) if envelope else math.nan
         finite = distance[np.isfinite(distance)]
+        if obj.plate is not None and envelope and finite.size:  # a sheet's path is chaotic
+            worst = max(worst, float(finite.max()))
         zones.append(
             ObjectZone(
                 obj=obj,
@@ -867,6 +890,8 @@ def site_zone(
 
 def zone_object(obj: object) -> ZoneObject:
     """The zone's view of a library object (:class:`dropcalc.io.library.DropObject`)."""
+    from dropcalc.physics.plate import plate_dimensions
+
     return ZoneObject(
         name=obj.name,
         mass=obj.mass,
@@ -876,6 +901,7 @@ def zone_object(obj: object) -> ZoneObject:
         fragile=obj.fragile,
         rolls="rolls" in obj.hazards,
         glides=obj.glides,
+        plate=plate_dimensions(obj.shape, obj.dimensions),
     )
 
 
@@ -898,6 +924,7 @@ def zone_objects_from_items(items: Sequence[object], library: object) -> list[Zo
                     quantity=item.quantity,
                     glides=item.glides,
                     fragile=item.fragile,
+                    plate=item.plate,
                 )
             )
     return objects

@@ -68,12 +68,17 @@ Katz, J. and Plotkin, A., *Low-Speed Aerodynamics*, 2nd ed. (2001), sec. 13.8 (f
 from __future__ import annotations
 
 import math
+from collections.abc import Mapping
 from dataclasses import dataclass
 
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
-from dropcalc.physics.constants import STANDARD_GRAVITY, TUMBLING_DRAG_FACTOR
+from dropcalc.physics.constants import (
+    GLIDE_THICKNESS_RATIO,
+    STANDARD_GRAVITY,
+    TUMBLING_DRAG_FACTOR,
+)
 from dropcalc.physics.shapes import plate_normal_drag_coefficient
 from dropcalc.physics.trajectory import (
     _A_ROWS,
@@ -81,6 +86,7 @@ from dropcalc.physics.trajectory import (
     _E,
     FallSolution,
     WindField,
+    _combine,
     _hermite_root,
 )
 from dropcalc.physics.wind import speed_ratio
@@ -125,7 +131,7 @@ MAX_STEPS = 100_000
     _H,
     _STEPS,
     _LANE,
-    _FIXED,  # 1: attitude held fixed
+    _FREE,  # 0: attitude held fixed, 1: free to rotate
 ) = range(18)
 _N_PARAMS = 18
 
@@ -215,15 +221,14 @@ def _rhs(state: NDArray, p: NDArray, profile: str, out: NDArray) -> None:
     alpha_dot = inv_i * offset * sign * fn - p[_DAMP] * omega * (
         abs_un * chord**3 / 12.0 + np.abs(omega) * chord**4 / 64.0
     )
-    fixed = p[_FIXED] > 0.0
     out[0] = u
     out[1] = w
     out[2] = v
     out[3] = ax
     out[4] = az
     out[5] = ay
-    out[6] = np.where(fixed, 0.0, omega)
-    out[7] = np.where(fixed, 0.0, alpha_dot)
+    out[6] = omega * p[_FREE]
+    out[7] = alpha_dot * p[_FREE]
 
 
 def _step(
@@ -239,12 +244,20 @@ def _step(
     m = state.shape[1]
     stages = np.empty((7, 8, m))
     stages[0] = slope0
+    trial = np.empty((8, m))
     for s in range(1, 6):
-        trial = state + h * np.tensordot(_A_ROWS[s], stages[:s], axes=(0, 0))
+        _combine(_A_ROWS[s], stages, trial)
+        trial *= h
+        trial += state
         _rhs(trial, p, profile, stages[s])
-    new = state + h * np.tensordot(_B, stages[:6], axes=(0, 0))
+    new = np.empty((8, m))
+    _combine(_B, stages, new)
+    new *= h
+    new += state
     _rhs(new, p, profile, stages[6])
-    err = h * np.tensordot(_E, stages, axes=(0, 0))
+    err = np.empty((8, m))
+    _combine(_E, stages, err)
+    err *= h
     tol = rtol * np.maximum(np.abs(state), np.abs(new)) + scale
     return new, stages[6], np.max(np.abs(err) / tol, axis=0)
 
@@ -362,7 +375,7 @@ def solve_plate_falls(
     params[_T] = 0.0
     params[_STEPS] = 0.0
     params[_LANE] = np.arange(n)
-    params[_FIXED] = 1.0 if fixed_attitude else 0.0
+    params[_FREE] = 0.0 if fixed_attitude else 1.0
     state = np.zeros((8, n))
     state[1] = h0
     state[3] = vx0 * px + vy0 * py
@@ -519,3 +532,33 @@ def lift_off_speed(
     s = np.asarray(area, dtype=float)
     rho = np.asarray(air_density, dtype=float)
     return np.sqrt(2.0 * m * np.asarray(gravity, dtype=float) / (rho * suction_coefficient * s))
+
+
+def plate_dimensions(
+    shape: str, dimensions: Mapping[str, float]
+) -> tuple[float, float, float] | None:
+    """(length, width, thickness) [m] of an object the plate model flies, else None.
+
+    Selected: every object of the plate shape class (sheets, boards, panes, slates, tiles), and
+    boxes and irregular bodies whose smallest edge is under
+    :data:`~dropcalc.physics.constants.GLIDE_THICKNESS_RATIO` of the middle one (a custom
+    board given as a box). Discs (thin cylinders) are not covered: they keep the glide warning.
+
+    Parameters
+    ----------
+    shape : str
+        Canonical shape class (:data:`dropcalc.physics.shapes.SHAPES`).
+    dimensions : mapping of str to float
+        The shape's dimensions by name. [m]
+    """
+    if shape == "plate":
+        return (
+            float(dimensions["length"]),
+            float(dimensions["width"]),
+            float(dimensions["thickness"]),
+        )
+    if shape in ("box", "irregular"):
+        small, middle, large = sorted(float(v) for v in dimensions.values())
+        if small < GLIDE_THICKNESS_RATIO * middle:
+            return large, middle, small
+    return None

@@ -25,14 +25,18 @@ def _fmt(value: float, kind: str, system: str, digits: int = 3) -> str:
     return format_quantity(value, kind, system, digits)
 
 
-def _bound_rows(imp: Impact | None, system: str) -> list[tuple[str, str]]:
-    """Rows for the largest drag area (a tumbling object's longest drift)."""
+def _bound_rows(imp: Impact | None, system: str, plate: bool = False) -> list[tuple[str, str]]:
+    """Rows for the largest drag area (a tumbling object's longest drift).
+
+    For a sheet flown by the plate model the bound is the attitude of the longest drift.
+    """
     if imp is None:
         return []
+    where = "Attitude of longest drift" if plate else "Largest drag area"
     if not bool(imp.landed[0]):
-        return [("At largest drag area", "carried away by the wind")]
+        return [(f"At {where.lower()}", "carried away by the wind")]
     return [
-        ("Largest drag area: drift", _fmt(_v(imp.drift), "length", system)),
+        (f"{where}: drift", _fmt(_v(imp.drift), "length", system)),
         ("  impact energy", _fmt(_v(imp.kinetic_energy), "energy", system)),
         ("  fall time", f"{_v(imp.fall_time):.2f} s"),
     ]
@@ -120,7 +124,14 @@ def render_fall(result: FallResult, system: str = "si") -> str:
     )
     if result.warnings:
         lines.append("")
-    if case.drag_area_max is None:
+    if case.plate is not None:
+        length, width, thickness = case.plate
+        drag = (
+            f"sheet {length * 1000:.0f} x {width * 1000:.0f} x {thickness * 1000:.0f} mm "
+            "(impact at the attitude of the highest energy, drift bound at the attitude of the "
+            "longest drift)"
+        )
+    elif case.drag_area_max is None:
         drag = f"drag area Cd·A {_fmt(case.drag_area, 'area', system)}"
     else:
         drag = (
@@ -138,6 +149,14 @@ def render_fall(result: FallResult, system: str = "si") -> str:
                 f"g = {_fmt(case.gravity, 'acceleration', system, 4)}"),
         ("Wind", _wind_text(case, system)),
     ]  # fmt: skip
+    header.append(("Flight", result.flight_model))
+    if result.lift_off_speed is not None:
+        header.append((
+            "Lift-off",
+            f"lying flat on a roof it lifts off above about "
+            f"{_fmt(result.lift_off_speed, 'speed', system)} at roof level (gust): weigh it "
+            "down or store it flat",
+        ))  # fmt: skip
     for label, text in header:
         wrapped = textwrap.wrap(text, 76)
         lines.append(f"  {label:<9}{wrapped[0]}")
@@ -148,7 +167,7 @@ def render_fall(result: FallResult, system: str = "si") -> str:
         if wind_case is not None:
             heading = f"{wind_case.label} {_fmt(wind_case.speed_10m, 'speed', system)}"
             rows = _impact_rows(wind_case.impact, system, case.edge_azimuth)
-            rows += _bound_rows(wind_case.impact_max_drag, system)
+            rows += _bound_rows(wind_case.impact_max_drag, system, case.plate is not None)
             columns.append((heading, rows))
     labels = [label for label, _ in columns[0][1]]
     width = max(len(label) for label in labels) + 2
@@ -235,8 +254,14 @@ def render_batch(
         lines.append(f"{n_bad} row(s) failed: see the error lines below and the error column.")
     if ignored_columns:
         lines.append(f"Ignored column(s): {', '.join(ignored_columns)}.")
-    if any(r.get("glides") for r in good):
+    if any(r.get("glides") and r.get("flight_model") != "plate" for r in good):
         lines.append("Sheets and plates in the list can glide far in wind: drift not conservative.")
+    sheets = [r for r in good if r.get("lift_off_speed_m_s")]
+    for r in sheets[:limit]:
+        lines.extend(textwrap.wrap(
+            f"{r.get('label') or r.get('id')}: flown by the plate model; lying flat on a roof it "
+            f"lifts off above about {_fmt(r['lift_off_speed_m_s'], 'speed', system)} at roof "
+            "level: weigh it down or store it flat.", 90))  # fmt: skip
     if out:
         lines.append(f"All rows written to {out}.")
     lines.append("")
@@ -345,6 +370,7 @@ def zone_json(result: object, limits: dict | None = None) -> dict:
                 "carried_away_fraction": z.carried_away,
                 "samples": z.samples,
                 "glides": z.obj.glides,
+                "flight_model": "plate" if z.obj.plate is not None else "point mass",
             }
             for z in r.objects
         ],
@@ -464,7 +490,7 @@ def render_zone(
     if s.wind.speed_10m > 0 and s.wind.profile == "uniform":
         lines.extend(textwrap.wrap(NO_TERRAIN_WARNING, 90))
     for z in r.objects:
-        if z.obj.glides:
+        if z.obj.glides and z.obj.plate is None:
             lines.extend(textwrap.wrap(
                 f"WARNING: {z.obj.name} is a sheet or plate: it can glide far downwind and the "
                 "point-mass zone is not conservative for it.", 90))  # fmt: skip
