@@ -27,9 +27,10 @@ def _lin_fits(k: float, t_tilde: float) -> tuple[float, float]:
     """Empirical fits of plate flight in uniform wind, released from rest.
 
     u/U = 1 - exp(-0.91 K t~) and x~ = 0.456 K t~^2 - 0.148 K^2 t~^3 + 0.024 K^3 t~^4
-    - 0.0014 K^4 t~^5, t~ = g t / U, x~ = g x / U^2 (Lin, Letchford and Holmes, J. Wind Eng.
-    Ind. Aerodyn. 94 (2006) 51-76, fits to wind-tunnel and full-scale plates; coefficients
-    from memory).
+    - 0.0014 K^4 t~^5, t~ = g t / U, x~ = g x / U^2: the fits of [LHL-2007] (Lin, Holmes and
+    Letchford, J. Struct. Eng. 133 (2007) 274-282) to the wind-tunnel and full-scale plates of
+    [LLH-2006] (Lin, Letchford and Holmes, J. Wind Eng. Ind. Aerodyn. 94 (2006) 51-76); form
+    and coefficients from memory.
     """
     kt = k * t_tilde
     u = 1.0 - math.exp(-0.91 * kt)

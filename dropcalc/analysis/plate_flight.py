@@ -249,3 +249,34 @@ def face_on_drag_parameter(plate: tuple[float, float, float], mass: float, densi
     aspect = max(length, width) / min(length, width)
     cd = float(plate_normal_drag_coefficient(aspect))
     return density * cd * length * width / (2.0 * mass)
+
+
+def bounding_attitudes(
+    plate: tuple[float, float, float],
+    mass: float,
+    height: float,
+    density: float,
+    wind: Any,
+    wind_speed: float,
+    edge_azimuth: float,
+    velocity0: np.ndarray,
+    gravity: float,
+) -> tuple[tuple[float, float, float, float], tuple[float, float, float, float]]:
+    """(chord, span, pitch, spin) of the highest-energy and of the longest-drift attitude.
+
+    From :func:`attitude_sweep` at one wind speed; a figure draws the sheet's path at these two
+    attitudes as it draws a point mass at its smallest and largest drag area.
+    """
+    solution, _ = attitude_sweep(
+        plate, mass, height, density, wind, np.array([wind_speed]), edge_azimuth, velocity0,
+        gravity,
+    )  # fmt: skip
+    grid = envelope_grid(plate, gravity)
+    landed = solution.landed
+    energy = np.where(landed, np.sum(solution.velocity**2, axis=0), -np.inf)
+    drift = np.where(landed, np.hypot(solution.position[0], solution.position[1]), np.inf)
+    i, j = int(np.argmax(energy)), int(np.argmax(drift))
+    return (
+        tuple(float(g[i]) for g in grid),  # type: ignore[return-value]
+        tuple(float(g[j]) for g in grid),
+    )

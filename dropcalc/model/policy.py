@@ -94,8 +94,8 @@ _SKIN = REFERENCE_LEVELS["skin-penetration-50"]
 #: reference levels named in each control).
 DEFAULT_RULES: tuple[ControlRule, ...] = (
     ControlRule(
-        "secure against wind (strap, weight or store flat); treat as windborne debris: the "
-        "computed drift is not conservative for sheets",
+        "secure against wind (strap, weight or store flat): a loose sheet lifts off a roof in "
+        "a moderate wind and flies as windborne debris",
         glides=True,
     ),
     ControlRule(

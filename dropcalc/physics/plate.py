@@ -55,14 +55,23 @@ dropped; the ground (z = 0) is found by a cubic Hermite interpolant and a repeat
 
 References
 ----------
-Tachikawa, M., "Trajectories of flat plates in uniform flow with application to wind-generated
-missiles", J. Wind Eng. Ind. Aerodyn. 14 (1983) 443-453.
-Holmes, J. D., Letchford, C. W. and Lin, N., "Investigations of plate-type windborne debris -
-Part II: Computed trajectories", J. Wind Eng. Ind. Aerodyn. 94 (2006) 21-39.
-Lin, N., Letchford, C. W. and Holmes, J. D., "Investigation of plate-type windborne debris.
-Part I. Experiments in wind tunnel and full scale", J. Wind Eng. Ind. Aerodyn. 94 (2006) 51-76.
-Hoerner, S. F. and Borst, H. V., *Fluid-Dynamic Lift*, 2nd ed. (1985), ch. 19 (from memory).
-Katz, J. and Plotkin, A., *Low-Speed Aerodynamics*, 2nd ed. (2001), sec. 13.8 (from memory).
+[TACHIKAWA-1983] Tachikawa, M., "Trajectories of flat plates in uniform flow with application to
+wind-generated missiles", J. Wind Eng. Ind. Aerodyn. 14 (1983) 443-453.
+[HLL-2006] Holmes, J. D., Letchford, C. W. and Lin, N., "Investigations of plate-type windborne
+debris - Part II: Computed trajectories", J. Wind Eng. Ind. Aerodyn. 94 (2006) 21-39.
+[LLH-2006] Lin, N., Letchford, C. W. and Holmes, J. D., "Investigation of plate-type windborne
+debris. Part I. Experiments in wind tunnel and full scale", J. Wind Eng. Ind. Aerodyn. 94 (2006)
+51-76; fitted in [LHL-2007] Lin, Holmes and Letchford, J. Struct. Eng. 133 (2007) 274-282.
+[HOERNER-BORST-1985] Hoerner, S. F. and Borst, H. V., *Fluid-Dynamic Lift*, 2nd ed. (1985),
+ch. 19 (from memory).
+[ANDERSON-FA] Anderson, J. D., *Fundamentals of Aerodynamics*, 5th ed. (2011), Helmbold's
+formula (from memory).
+[KATZ-PLOTKIN-2001] Katz, J. and Plotkin, A., *Low-Speed Aerodynamics*, 2nd ed. (2001),
+sec. 13.8 (from memory).
+[EN1991-1-4] EN 1991-1-4:2005, Table 7.2 (roof-edge suction, lift-off of loose sheets);
+[WILLS-2002] Wills, Lee and Wyatt, J. Wind Eng. Ind. Aerodyn. 90 (2002) 555-565.
+[RICHARDS-2008] and [KORDI-2009] give the 3-D coefficients and the corrections to quasi-steady
+theory (autorotation) this set does not yet hold; see the closing note of issue 11.
 """
 
 from __future__ import annotations

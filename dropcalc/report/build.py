@@ -228,6 +228,36 @@ def _wind_text(job: JobResult) -> str:
     )
 
 
+def _plate_cases(obj: Any, inputs: Any, height: float, density: float, gravity: float) -> list:
+    """Side-view paths of a sheet at its highest-energy and longest-drift attitudes."""
+    from dropcalc.analysis.fall import wind_field
+    from dropcalc.analysis.plate_flight import bounding_attitudes
+    from dropcalc.report.figures import PlateFlight, SideViewCase
+
+    cases = []
+    velocity = np.asarray(inputs.initial_velocity, dtype=float).reshape(3)
+    for kind, speed in inputs.wind_speeds:
+        attitudes = bounding_attitudes(
+            obj.plate, obj.mass, height, density, inputs.side_wind, speed, SIDE_VIEW_AZIMUTH,
+            velocity, gravity,
+        )  # fmt: skip
+        for (chord, span, pitch, spin), bound in zip(attitudes, ("min", "max"), strict=True):
+            cases.append(
+                SideViewCase(
+                    label=f"{obj.name}, attitude {bound}, {kind} {speed:.3g} m/s",
+                    release_height=height,
+                    initial_velocity=tuple(velocity),
+                    drag_parameter=0.0,
+                    gravity=gravity,
+                    wind=wind_field(inputs.side_wind, np.array([speed])),
+                    style_key=(obj.name, bound, kind),
+                    edge_azimuth=SIDE_VIEW_AZIMUTH,
+                    plate=PlateFlight(obj.mass, chord, span, obj.plate[2], density, pitch, spin),
+                )
+            )
+    return cases
+
+
 def draw_figures(job: JobResult, folder: Path, image_format: str = "png") -> dict[str, Path]:
     """Side view and energy-against-height figures for the objects that matter most.
 
@@ -255,6 +285,9 @@ def draw_figures(job: JobResult, folder: Path, image_format: str = "png") -> dic
     density = scenario.air.density
     cases = []
     for obj in inputs.objects[:SIDE_VIEW_OBJECTS]:
+        if obj.plate is not None:  # a sheet: drawn at its two bounding attitudes
+            cases.extend(_plate_cases(obj, inputs, height, density, scenario.gravity))
+            continue
         for bound, area_m2 in (("min", obj.drag_area_min), ("max", obj.drag_area_max)):
             k = float(drag_parameter(density, area_m2, obj.mass))
             for kind, speed in inputs.wind_speeds:

@@ -223,6 +223,33 @@ def energy_curve(curve: EnergyCurve, heights: ArrayLike) -> np.ma.MaskedArray:
 # --------------------------------------------------------------------------------------------
 
 
+@dataclass(frozen=True)
+class PlateFlight:
+    """A sheet flown by the plate model in a side view (:mod:`dropcalc.physics.plate`).
+
+    Attributes
+    ----------
+    mass : float
+        [kg]
+    chord, span, thickness : float
+        Side in the plane of the wind, side across it, thickness. [m]
+    air_density : float
+        [kg/m^3]
+    pitch : float
+        Pitch at release. [deg]
+    spin : float
+        Pitch rate at release. [rad/s]
+    """
+
+    mass: float
+    chord: float
+    span: float
+    thickness: float
+    air_density: float
+    pitch: float
+    spin: float
+
+
 #: Drag bound names accepted in ``SideViewCase.style_key`` (smallest, largest drag area).
 DRAG_BOUND_NAMES = {"min": False, "smallest": False, "max": True, "largest": True}
 
@@ -263,6 +290,9 @@ class SideViewCase:
     gust : bool
         The path is in the gust (lighter tone, open landing marker); False for the mean or
         given wind.
+    plate : PlateFlight or None
+        A sheet flown by the plate model (``drag_parameter`` is then not used); the smallest
+        and largest drag bounds stand for its attitudes of highest energy and longest drift.
 
     Raises
     ------
@@ -280,6 +310,7 @@ class SideViewCase:
     edge_azimuth: float = 90.0
     largest_drag: bool = False
     gust: bool = False
+    plate: PlateFlight | None = None
 
     def __post_init__(self) -> None:
         if self.style_key is None:
@@ -309,8 +340,11 @@ def _scalar(value: ArrayLike) -> float:
 def _case_paths(cases: Sequence[SideViewCase], max_distance: float) -> list[NDArray[np.float64]]:
     """Paths of the cases, one :func:`trajectory_paths` call per wind profile law."""
     tracks: list[NDArray[np.float64] | None] = [None] * len(cases)
-    for profile in dict.fromkeys(c.wind.profile for c in cases):
-        chosen = [i for i, c in enumerate(cases) if c.wind.profile == profile]
+    for i, case in enumerate(cases):
+        if case.plate is not None:
+            tracks[i] = _plate_track(case, max_distance)
+    for profile in dict.fromkeys(c.wind.profile for c in cases if c.plate is None):
+        chosen = [i for i, c in enumerate(cases) if c.wind.profile == profile and c.plate is None]
         group = [cases[i] for i in chosen]
 
         def column(name: str, group: list[SideViewCase] = group) -> NDArray[np.float64]:
@@ -336,6 +370,23 @@ def _case_paths(cases: Sequence[SideViewCase], max_distance: float) -> list[NDAr
         for i, track in zip(chosen, paths, strict=True):
             tracks[i] = track
     return [track for track in tracks if track is not None]
+
+
+def _plate_track(case: SideViewCase, max_distance: float, samples: int = 200) -> NDArray:
+    """Path (rows time, east, north, height) of a sheet flown by the plate model."""
+    from dropcalc.physics.plate import PlateGeometry, solve_plate_falls
+
+    p = case.plate
+    assert p is not None
+    solution = solve_plate_falls(
+        case.release_height, np.asarray(case.initial_velocity, dtype=float).reshape(3), p.mass,
+        PlateGeometry(p.chord, p.span, p.thickness), p.air_density, initial_pitch=p.pitch,
+        initial_spin=p.spin, gravity=case.gravity, wind=case.wind, max_distance=max_distance,
+        record_path=True,
+    )  # fmt: skip
+    path = solution.paths[0] if solution.paths else np.zeros((7, 1))
+    times = np.linspace(0.0, path[0, -1], samples)
+    return np.vstack([times, sample_path(path, times)])
 
 
 def _figure_format(path: Path, what: str) -> str:
@@ -848,6 +899,26 @@ def fall_cases(result: FallResult) -> list[SideViewCase]:
     if case.drag_area_max is not None and case.drag_area_max > case.drag_area:
         areas.append((case.drag_area_max, True))
     cases = []
+    if case.plate is not None:  # a sheet: its attitudes of highest energy and longest drift
+        from dropcalc.analysis.plate_flight import bounding_attitudes
+
+        for speed, gust in winds:
+            attitudes = bounding_attitudes(
+                case.plate, case.mass, case.height, case.air.density, case.wind, speed,
+                case.edge_azimuth, velocity, case.gravity,
+            )  # fmt: skip
+            for (chord, span, pitch, spin), largest in zip(attitudes, (False, True), strict=True):
+                cases.append(
+                    SideViewCase(
+                        label=label, release_height=case.height, initial_velocity=tuple(velocity),
+                        drag_parameter=0.0, gravity=case.gravity,
+                        wind=wind_field(case.wind, np.array([speed])), largest_drag=largest,
+                        gust=gust, edge_azimuth=case.edge_azimuth,
+                        plate=PlateFlight(case.mass, chord, span, case.plate[2],
+                                          case.air.density, pitch, spin),
+                    )
+                )  # fmt: skip
+        return cases
     for area, largest in areas:
         k = float(drag_parameter(case.air.density, area, case.mass))
         for speed, gust in winds:
