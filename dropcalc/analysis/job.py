@@ -396,9 +396,9 @@ def _warnings(rows: list[dict[str, Any]]) -> tuple[str, ...]:
             f"Sheets and plates ({', '.join(gliders)}) can glide far downwind: the computed "
             "zone is not conservative for them. Secure them against wind before work starts."
         )
-    for row in rows:
+    for row in rows:  # thin sheets only: a loose thick slab is not what blows off a roof
         lift_off = row.get("lift_off_speed_m_s")
-        if lift_off:
+        if lift_off and row.get("glides"):
             warnings.append(
                 f"{row.get('label')}: lying flat on a roof it lifts off above about "
                 f"{lift_off:.0f} m/s at roof level (gust): weigh it down or store it flat."

@@ -256,7 +256,7 @@ def render_batch(
         lines.append(f"Ignored column(s): {', '.join(ignored_columns)}.")
     if any(r.get("glides") and r.get("flight_model") != "plate" for r in good):
         lines.append("Sheets and plates in the list can glide far in wind: drift not conservative.")
-    sheets = [r for r in good if r.get("lift_off_speed_m_s")]
+    sheets = [r for r in good if r.get("lift_off_speed_m_s") and r.get("glides")]
     for r in sheets[:limit]:
         lines.extend(textwrap.wrap(
             f"{r.get('label') or r.get('id')}: flown by the plate model; lying flat on a roof it "

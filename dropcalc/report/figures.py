@@ -600,17 +600,22 @@ def side_view(
         )
     ]
     if len({c.largest_drag for c in cases}) > 1:
+        sheets = any(c.plate is not None for c in cases)  # drawn at attitudes, not areas
         sections.append(
             (
-                "Drag area Cd·A",
+                "Drag area Cd·A (sheet: attitude)" if sheets else "Drag area Cd·A",
                 [
-                    Line2D([], [], color=grey, lw=1.9, label="smallest"),
                     Line2D(
-                        [], [], color=grey, lw=1.9, linestyle=LARGEST_DRAG_DASHES, label="largest"
+                        [], [], color=grey, lw=1.9,
+                        label="smallest (sheet: highest energy)" if sheets else "smallest",
+                    ),
+                    Line2D(
+                        [], [], color=grey, lw=1.9, linestyle=LARGEST_DRAG_DASHES,
+                        label="largest (sheet: longest drift)" if sheets else "largest",
                     ),
                 ],
             )
-        )
+        )  # fmt: skip
     wind_handles = [
         Line2D(
             [],
