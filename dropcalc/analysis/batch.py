@@ -633,53 +633,58 @@ def _solve_chunk(items: Sequence[Item], settings: BatchSettings) -> list[dict[st
         row["glides"] = item.glides
         row["flight_model"] = "plate" if item.plate is not None else "point mass"
         row["lift_off_speed_m_s"] = None
-        if item.plate is not None:
-            _plate_row(row, item, settings)
         row["warnings"] = "; ".join(warnings)
         row["error"] = ""
         out.append(row)
+    _plate_rows(out, items, settings)
     return out
 
 
-def _plate_row(row: dict[str, Any], item: Item, settings: BatchSettings) -> None:
-    """Replace a sheet's point-mass figures by the plate model's over its attitudes.
+def _plate_rows(rows: list[dict[str, Any]], items: Sequence[Item], settings: BatchSettings) -> None:
+    """Replace the sheets' point-mass figures by the plate model's over their attitudes.
 
-    The attitude grid of :func:`dropcalc.analysis.plate_flight.attitude_sweep` at the list's
-    wind: the highest impact energy and speed, the shortest and longest drift and fall time.
-    Adds the lift-off wind of the sheet lying on a roof
+    One engine call for every sheet of the chunk (:func:`dropcalc.analysis.plate_flight.sweep_rows`,
+    the list's wind): the highest and lowest impact energy and speed, the shortest and longest
+    drift and fall time. Adds the lift-off wind of each sheet lying on a roof
     (:func:`dropcalc.physics.plate.lift_off_speed`). The safe heights stay the point mass's.
     """
-    from dropcalc.analysis.plate_flight import attitude_sweep
+    from dropcalc.analysis.plate_flight import sweep_rows
     from dropcalc.physics.plate import lift_off_speed
 
-    assert item.plate is not None
+    chosen = [i for i, item in enumerate(items) if item.plate is not None]
+    if not chosen:
+        return
     v0 = np.asarray(
         initial_velocity(settings.release, settings.edge_azimuth, settings.gravity), dtype=float
     )
-    solution, _ = attitude_sweep(
-        item.plate, item.mass, item.height, settings.air.density, settings.wind,
-        np.array([settings.wind.speed_10m]), settings.edge_azimuth, v0, settings.gravity,
+    sheets = [items[i] for i in chosen]
+    found = sweep_rows(
+        [it.plate for it in sheets], np.array([it.mass for it in sheets]),
+        np.array([it.height for it in sheets]), settings.air.density, settings.wind,
+        settings.wind.speed_10m, settings.edge_azimuth, v0, settings.gravity,
     )  # fmt: skip
-    length, width, _ = item.plate
-    row["lift_off_speed_m_s"] = float(
-        lift_off_speed(item.mass, length * width, settings.air.density, settings.gravity)
-    )
-    if not np.all(solution.landed):
-        row["drift_max_m"] = None  # carried away at some attitude: no bound
-        return
-    speed = np.sqrt(np.sum(solution.velocity**2, axis=0))
-    drift = np.hypot(solution.position[0], solution.position[1])
-    energy = 0.5 * item.mass * speed**2
-    row["impact_speed_max_m_s"] = float(speed.max())
-    row["impact_speed_min_m_s"] = float(speed.min())
-    row["impact_energy_max_j"] = float(energy.max())
-    row["impact_energy_min_j"] = float(energy.min())
-    if item.contact_area is not None:
-        row["energy_per_contact_area_j_cm2"] = float(energy.max()) / item.contact_area / 1e4
-    row["fall_time_s"] = float(solution.time.min())
-    row["fall_time_max_s"] = float(solution.time.max())
-    row["drift_min_m"] = float(drift.min())
-    row["drift_max_m"] = float(drift.max())
+    for j, (i, item) in enumerate(zip(chosen, sheets, strict=True)):
+        row = rows[i]
+        length, width, _ = item.plate
+        row["lift_off_speed_m_s"] = float(
+            lift_off_speed(item.mass, length * width, settings.air.density, settings.gravity)
+        )
+        if not found.landed[j]:
+            row["drift_max_m"] = None  # carried away at some attitude: no bound
+            continue
+        energy_max = 0.5 * item.mass * float(found.speed_max[j]) ** 2
+        row["impact_speed_max_m_s"] = float(found.speed_max[j])
+        row["impact_speed_min_m_s"] = float(found.speed_min[j])
+        row["impact_energy_max_j"] = energy_max
+        row["impact_energy_min_j"] = 0.5 * item.mass * float(found.speed_min[j]) ** 2
+        if item.contact_area is not None:
+            row["energy_per_contact_area_j_cm2"] = energy_max / item.contact_area / 1e4
+        row["fall_time_s"] = float(found.time_min[j])
+        row["fall_time_max_s"] = float(found.time_max[j])
+        row["drift_min_m"] = float(found.drift_min[j])
+        row["drift_max_m"] = float(found.drift_max[j])
+        epa = None if item.contact_area is None else energy_max / item.contact_area
+        row["control"] = suggest_control(settings.rules, energy_max, epa, item.mass, item.glides)
 
 
 def error_rows(errors: Sequence[RowError]) -> list[dict[str, Any]]:
