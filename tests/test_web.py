@@ -166,7 +166,7 @@ def test_page_is_served_with_a_strict_content_policy(client: TestClient) -> None
     boot = re.search(r'<script type="application/json" id="boot">(.*?)</script>', response.text)
     assert boot is not None
     data = json.loads(boot.group(1))
-    assert "hand-tools" in data["categories"]
+    assert "asphalt" in dict(data["choices"]["grounds"])
     assert "Read before use" in response.text  # the cautions are on the page
     for asset in ("/static/page.js", "/static/page.css", "/static/icon.svg"):
         assert client.get(asset).status_code == 200, asset
@@ -192,7 +192,9 @@ def test_library_search_and_category(client: TestClient) -> None:
     assert hammer["mass_kg"] > 0
     assert hammer["drag_area_min_m2"] <= hammer["drag_area_max_m2"]
     assert hammer["source"]
-    tools = client.get("/api/library", params={"category": "hand-tools"}).json()["objects"]
+    listing = client.get("/api/library", params={"category": "hand-tools"}).json()
+    assert "hand-tools" in listing["categories"]
+    tools = listing["objects"]
     assert tools
     assert {o["category"] for o in tools} == {"hand-tools"}
 
@@ -234,6 +236,10 @@ def test_compute_answers_with_the_loader_and_the_job(client: TestClient) -> None
     assert area["zone"]
     assert area["zone"][0][0][0] == area["zone"][0][0][-1]
     assert answer["caution"].startswith("Estimates from a simplified model")
+    # Every item with the control rules that apply to it, as a list of texts.
+    assert answer["controls"]
+    assert all(isinstance(c["item"], str) for c in answer["controls"])
+    assert all(c["controls"] and isinstance(c["controls"], list) for c in answer["controls"])
     assert answer["objects"][0]["label"] == HOSTILE  # data, shown with textContent
     for name in ("side_view", "energy_height"):
         uri = answer["figures"][name]

@@ -12,6 +12,7 @@ from __future__ import annotations
 import asyncio
 import json
 import sys
+import threading
 from pathlib import Path
 from typing import Any
 
@@ -138,7 +139,7 @@ async def _json_body(request: Request) -> Any:
         raise DropcalcError("the request body is not valid JSON") from None
 
 
-def create_app(*, local_only: bool = True, cache_size: int = 8) -> Starlette:
+def create_app(*, local_only: bool = True, cache_size: int = 8, warm: bool = True) -> Starlette:
     """The page as an ASGI application.
 
     Parameters
@@ -148,22 +149,24 @@ def create_app(*, local_only: bool = True, cache_size: int = 8) -> Starlette:
         ::1); False when the server is bound beyond it (``--host``).
     cache_size : int
         How many finished jobs to keep for downloads and repeated inputs.
+    warm : bool
+        Load the library and the job pipeline in a background thread right away.
     """
     from dropcalc import __version__
-    from dropcalc.report.build import load_text
+    from dropcalc.resources import data_path
     from dropcalc.texts import CAUTION_SHORT
 
     environment = _environment()
-    cautions = [
-        line[2:].strip() for line in load_text("cautions.md").splitlines() if line.startswith("- ")
-    ]
+    text = (data_path("templates") / "cautions.md").read_text(encoding="utf-8")
+    cautions = [line[2:].strip() for line in text.splitlines() if line.startswith("- ")]
+    if warm:
+        threading.Thread(target=service.warm_up, name="dropcalc-warm-up", daemon=True).start()
     cache = service.JobCache(size=cache_size)
     compute_lock = asyncio.Lock()
 
     async def page(request: Request) -> Response:
         boot = {
-            "categories": service.library_categories(),
-            "choices": service.choices(),
+            "choices": await run_in_threadpool(service.choices),
             "empty": service.empty_form(),
             "version": __version__,
         }
@@ -176,10 +179,12 @@ def create_app(*, local_only: bool = True, cache_size: int = 8) -> Starlette:
         search = request.query_params.get("search", "")
         category = request.query_params.get("category", "")
         try:
-            found = service.library_entries(search, category)
+            found = await run_in_threadpool(service.library_entries, search, category)
         except DropcalcError as exc:
             return _errors(400, str(exc), "library")
-        return JSONResponse({"objects": found})
+        return JSONResponse(
+            {"objects": found, "categories": await run_in_threadpool(service.library_categories)}
+        )
 
     async def demo(request: Request) -> Response:
         return JSONResponse({"form": await run_in_threadpool(service.demo_form)})
@@ -195,11 +200,25 @@ def create_app(*, local_only: bool = True, cache_size: int = 8) -> Starlette:
         if not (isinstance(request_id, int) and not isinstance(request_id, bool)):
             return _errors(400, "request_id must be a whole number", "request_id")
         async with compute_lock:
-            # A request the page has given up on (newer inputs) is not worth computing.
+            # A request the page has given up on (newer inputs: it closed the connection) is
+            # not worth computing, nor finishing: a watcher stops the job at its next round.
             if await request.is_disconnected():
                 return Response(status_code=204)
+            cancelled = threading.Event()
+
+            async def watch() -> None:
+                while not cancelled.is_set():
+                    if await request.is_disconnected():
+                        cancelled.set()
+                    await asyncio.sleep(0.2)
+
+            watcher = asyncio.create_task(watch())
             try:
-                answer = await run_in_threadpool(service.compute, body.get("form"), cache)
+                answer = await run_in_threadpool(
+                    service.compute, body.get("form"), cache, cancelled
+                )
+            except service.Superseded:
+                return Response(status_code=204)
             except service.FormError as exc:
                 return JSONResponse(
                     {"request_id": request_id, "errors": service.form_errors_json(exc.errors)},
@@ -210,6 +229,9 @@ def create_app(*, local_only: bool = True, cache_size: int = 8) -> Starlette:
                     {"request_id": request_id, "errors": [service.field_error(exc).to_json()]},
                     422,
                 )
+            finally:
+                cancelled.set()
+                watcher.cancel()
         return JSONResponse({"request_id": request_id, **answer})
 
     async def _files(request: Request, names: tuple[str, ...]) -> dict[str, tuple[bytes, str]]:

@@ -174,7 +174,7 @@ def check_form(data: Any) -> dict[str, Any]:
         ("policy", POLICY_FIELDS),
     ):
         table = _table(form.get(part), part, fields)
-        values = {}
+        values: dict[str, Any] = {}
         for name in fields:
             if part == "policy" and name == "levels":
                 levels = table.get(name)

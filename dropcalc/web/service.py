@@ -9,6 +9,7 @@ name; the name the user's file had is only ever shown, never used as a path.
 
 from __future__ import annotations
 
+import functools
 import hashlib
 import re
 import tempfile
@@ -154,10 +155,9 @@ def list_rows(frame: Any) -> tuple[list[dict[str, str]], list[dict[str, Any]]]:
         ``{"row", "label", "id", "message"}`` with the spreadsheet's row number.
     """
     from dropcalc.analysis.batch import BatchSettings, parse_items
-    from dropcalc.io.library import load_library
 
     items, errors = parse_items(
-        frame, load_library(), BatchSettings(height=LIST_CHECK_HEIGHT), first_row=2
+        frame, library(), BatchSettings(height=LIST_CHECK_HEIGHT), first_row=2
     )
     good = {item.row for item in items}
     objects = []
@@ -237,6 +237,32 @@ def demo_form() -> dict[str, Any]:
 # The object library
 
 
+_LIBRARY_LOCK = threading.Lock()
+_LIBRARY: list[Any] = []
+
+
+def library() -> Any:
+    """The built-in object library, loaded once per process (the first call takes ~1 s)."""
+    with _LIBRARY_LOCK:
+        if not _LIBRARY:
+            from dropcalc.io.library import load_library
+
+            _LIBRARY.append(load_library())
+        return _LIBRARY[0]
+
+
+def warm_up() -> None:
+    """Load the library and import the job pipeline ahead of the first request.
+
+    Run in a background thread while the server starts and the browser opens, so that the
+    page's first library list and first answer do not wait for them.
+    """
+    library()
+    choices()
+    import dropcalc.analysis.job  # noqa: F401
+    import dropcalc.report.build  # noqa: F401
+
+
 def library_entries(search: str = "", category: str = "") -> list[dict[str, Any]]:
     """Library objects matching a search text and a category ("" for any), for the picker.
 
@@ -245,17 +271,15 @@ def library_entries(search: str = "", category: str = "") -> list[dict[str, Any]
     InputError
         For an unknown category or an over-long search text.
     """
-    from dropcalc.io.library import load_library
-
     if len(search) > 200:
         raise InputError(f"search: at most 200 characters; got {len(search)}")
-    library = load_library()
-    found = library.search(search) if search.strip() else tuple(library)
+    objects = library()
+    found = objects.search(search) if search.strip() else tuple(objects)
     if category:
-        if category not in library.categories():
+        if category not in objects.categories():
             raise InputError(
                 f"category: unknown category {shorten(repr(category), 40)}; known: "
-                f"{', '.join(library.categories())}"
+                f"{', '.join(objects.categories())}"
             )
         found = tuple(o for o in found if o.category == category)
     return [
@@ -275,9 +299,7 @@ def library_entries(search: str = "", category: str = "") -> list[dict[str, Any]
 
 def library_categories() -> list[str]:
     """Category ids of the library, in library order."""
-    from dropcalc.io.library import load_library
-
-    return list(load_library().categories())
+    return list(library().categories())
 
 
 # --------------------------------------------------------------------------------------------
@@ -324,6 +346,7 @@ def form_errors_json(errors: list[FieldError]) -> list[Mapping[str, str]]:
 # Choices the page offers in its lists
 
 
+@functools.cache
 def choices() -> dict[str, Any]:
     """Grounds, terrains, releases, wind kinds and reference levels, with labels."""
     from dropcalc.model.reference_levels import DEFAULT_LEVEL_KEYS, REFERENCE_LEVELS
@@ -365,7 +388,13 @@ def empty_form() -> dict[str, Any]:
 # The job and its answer
 
 
-def run_form(form_data: Any, cache: JobCache | None = None) -> tuple[dict[str, Any], bool]:
+class Superseded(Exception):
+    """The page gave up on this request (newer inputs): the job was stopped part-way."""
+
+
+def run_form(
+    form_data: Any, cache: JobCache | None = None, cancelled: threading.Event | None = None
+) -> tuple[dict[str, Any], bool]:
     """Load a form and run its job (or take it from the cache).
 
     Returns
@@ -378,14 +407,20 @@ def run_form(form_data: Any, cache: JobCache | None = None) -> tuple[dict[str, A
     ------
     FormError
         For input the loader or the job refuses, with the field.
+    Superseded
+        When ``cancelled`` is set while the job runs (checked at each Monte Carlo round).
     """
     from dropcalc.analysis.job import run_job
 
     scenario, text = load_form(form_data)
 
+    def check(done: int, total: int) -> None:
+        if cancelled is not None and cancelled.is_set():
+            raise Superseded
+
     def run() -> Any:
         try:
-            return run_job(scenario)
+            return run_job(scenario, check if cancelled is not None else None)
         except DropcalcError as exc:
             raise FormError([field_error(exc)]) from None
 
@@ -458,6 +493,7 @@ def answer_json(job: Any) -> dict[str, Any]:
                 "heights_text": ", ".join(f"{e.name} at {e.height:g} m" for e in area.site.edges),
                 "release": describe(area.release, scenario.gravity),
                 "zone": _rings(area.zone.area.polygon) if finite else [],
+                "driver_warnings": list(getattr(area, "driver_warnings", ())),
             }
         )
     objects = []
@@ -486,7 +522,10 @@ def answer_json(job: Any) -> dict[str, Any]:
     return {
         "areas": areas,
         "objects": objects,
-        "controls": [list(pair) for pair in job.controls],
+        "controls": [
+            {"item": item, "controls": [controls] if isinstance(controls, str) else list(controls)}
+            for item, controls in job.controls
+        ],
         "warnings": list(job.warnings),
         "figures": figures,
         "caution": CAUTION_SHORT,
@@ -499,8 +538,13 @@ def _finite(value: Any) -> float | None:
     return float(value) if isinstance(value, int | float) and math.isfinite(value) else None
 
 
-def compute(form_data: Any, cache: JobCache | None = None) -> dict[str, Any]:
+def compute(
+    form_data: Any, cache: JobCache | None = None, cancelled: threading.Event | None = None
+) -> dict[str, Any]:
     """Run a form's job and return the page's answer (:func:`answer_json`).
+
+    ``cancelled``, set from another thread, stops the job part-way (:class:`Superseded`): the
+    page has newer inputs and no longer waits for this answer.
 
     Raises
     ------
@@ -510,7 +554,7 @@ def compute(form_data: Any, cache: JobCache | None = None) -> dict[str, Any]:
     import time
 
     started = time.perf_counter()
-    entry, cached = run_form(form_data, cache)
+    entry, cached = run_form(form_data, cache, cancelled)
     if "answer" not in entry:
         entry["answer"] = answer_json(entry["job"])
     return {**entry["answer"], "cached": cached, "seconds": time.perf_counter() - started}

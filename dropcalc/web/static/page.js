@@ -288,6 +288,10 @@ function searchLibrary() {
     list.textContent = "";
     showError("library", response.ok ? "" : data.errors[0].message);
     if (!response.ok) return;
+    const categories = $("#library-category");
+    if (categories.options.length === 1) {
+      for (const c of data.categories) categories.append(el("option", { value: c }, c.replaceAll("-", " ")));
+    }
     for (const obj of data.objects) {
       libraryNames[obj.id] = obj.name;
       const card = el("div", { class: "library-item", "data-id": obj.id });
@@ -311,10 +315,8 @@ function searchLibrary() {
       list.append(card);
     }
     if (!data.objects.length) list.append(el("p", { class: "quiet" }, "Nothing matches."));
+    list.dataset.search = params.toString();  // which search the list shows (for tests)
   }, 150);
-}
-for (const c of boot.categories) {
-  $("#library-category").append(el("option", { value: c }, c.replaceAll("-", " ")));
 }
 $("#library-search").addEventListener("input", searchLibrary);
 $("#library-category").addEventListener("change", searchLibrary);
@@ -431,6 +433,12 @@ function renderPlan() {
   const st = svg("text", { x: sx, y: sy - span / 60, "font-size": fontSize });
   st.textContent = `${bar} m`;
   n.append(st);
+  const speed = (form.wind.speed || "").trim();
+  const wind = !speed || /^0+(\.0*)?(\s*\S+)?$/.test(speed) ? "still air" :
+    `wind ${speed}` + (form.wind.from ? ` from ${form.wind.from}` : ", straight out from each edge");
+  const wt = svg("text", { x: b.x0 + span / 40, y: -b.y1 + span / 25, "font-size": fontSize, class: "wind-note" });
+  wt.textContent = wind;
+  n.append(wt);
   plan.append(n);
 }
 
@@ -615,6 +623,7 @@ function showAnswer(answer) {
     fact("Release", area.release);
     fact("Area to fence", `${Math.round(area.area_m2).toLocaleString("en")} m²`);
     card.append(facts);
+    for (const w of area.driver_warnings) card.append(el("p", { class: "card-warning" }, w));
     cards.append(card);
   });
   $("#caution-short").textContent = answer.caution;
@@ -624,9 +633,16 @@ function showAnswer(answer) {
   $("#warnings-box").hidden = !answer.warnings.length;
   const controls = $("#controls");
   controls.textContent = "";
-  for (const [item, control] of answer.controls) {
+  for (const { item, controls: list } of answer.controls) {
     const row = el("tr");
-    row.append(el("td", {}, item), el("td", {}, control));
+    const cell = el("td");
+    if (list.length === 1) cell.textContent = list[0];
+    else {
+      const ul = el("ul", { class: "tight" });
+      for (const c of list) ul.append(el("li", {}, c));
+      cell.append(ul);
+    }
+    row.append(el("td", {}, item), cell);
     controls.append(row);
   }
   $("#controls-box").hidden = !answer.controls.length;
