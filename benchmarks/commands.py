@@ -8,12 +8,18 @@ shared: compare numbers from the same run, or quote ratios, not absolute times f
 days.
 
     python benchmarks/commands.py [--repeat 5] [--only zone1,fall] [--batch-rows 100000] [--json]
+        [--baseline DIR]
+
+``--baseline DIR`` also runs every workload with the ``dropcalc`` of another source tree (e.g. an
+export of main before a change: ``git archive main | tar -x -C DIR``), alternating the two run
+by run, and prints both medians and their ratio: a comparison under the same machine load.
 """
 
 from __future__ import annotations
 
 import argparse
 import json
+import os
 import statistics
 import subprocess
 import sys
@@ -91,32 +97,60 @@ def workloads(paths: dict[str, Path]) -> dict[str, list[str]]:
     }  # fmt: skip
 
 
-def time_command(args: list[str], repeat: int, cwd: Path) -> tuple[float, list[float], int]:
-    """Median wall time [s] of ``repeat`` fresh runs, all times, and the last exit code."""
-    times = []
-    code = 0
+def _environment(source: Path | None) -> dict[str, str]:
+    """The environment of a run: with ``source``, its ``dropcalc`` comes first on the path."""
+    env = dict(os.environ)
+    if source is not None:
+        env["PYTHONPATH"] = os.pathsep.join(filter(None, [str(source), env.get("PYTHONPATH")]))
+    return env
+
+
+def run_once(args: list[str], cwd: Path, source: Path | None = None) -> float:
+    """Wall time [s] of one fresh ``python -m dropcalc`` run."""
+    start = time.perf_counter()
+    done = subprocess.run(
+        [sys.executable, "-m", "dropcalc", *args],
+        cwd=cwd,
+        env=_environment(source),
+        capture_output=True,
+        text=True,
+        check=False,
+    )
+    elapsed = time.perf_counter() - start
+    if done.returncode not in (0, 1):  # batch exits 1 when a row failed; else a failure
+        raise SystemExit(f"{' '.join(args)} failed ({done.returncode}):\n{done.stderr[-2000:]}")
+    return elapsed
+
+
+def time_command(
+    args: list[str], repeat: int, cwd: Path, baseline: Path | None = None
+) -> dict[str, object]:
+    """Median wall times [s] of ``repeat`` fresh runs (alternating with the baseline's)."""
+    times, base_times = [], []
     for _ in range(repeat):
-        start = time.perf_counter()
-        done = subprocess.run(
-            [sys.executable, "-m", "dropcalc", *args],
-            cwd=cwd,
-            capture_output=True,
-            text=True,
-            check=False,
+        if baseline is not None:
+            base_times.append(run_once(args, cwd, baseline))
+        times.append(run_once(args, cwd))
+    result: dict[str, object] = {"median_s": statistics.median(times), "times_s": times}
+    if baseline is not None:
+        base = statistics.median(base_times)
+        result.update(
+            baseline_median_s=base,
+            baseline_times_s=base_times,
+            speedup=base / statistics.median(times),
         )
-        times.append(time.perf_counter() - start)
-        code = done.returncode
-        if code not in (0, 1):  # batch exits 1 when a row failed; anything else is a failure
-            raise SystemExit(f"{' '.join(args)} failed ({code}):\n{done.stderr[-2000:]}")
-    return statistics.median(times), times, code
+    return result
 
 
-def engine_ratio(cases: int, reference_cases: int) -> float:
+def engine_ratio(cases: int, reference_cases: int, source: Path | None = None) -> float:
     """Engine speed-up over the solve_ivp loop, both measured now (benchmarks/engine.py)."""
-    sys.path.insert(0, str(Path(__file__).parent))
-    from engine import run
-
-    return float(run(cases, reference_cases, 20240601)["speedup"])
+    script = (source or ROOT) / "benchmarks" / "engine.py"
+    done = subprocess.run(
+        [sys.executable, str(script), "--cases", str(cases), "--reference-cases",
+         str(reference_cases), "--json"],
+        env=_environment(source), capture_output=True, text=True, check=True,
+    )  # fmt: skip
+    return float(json.loads(done.stdout)["speedup"])
 
 
 def main(argv: list[str] | None = None, report: Callable[[str], None] = print) -> dict:
@@ -127,7 +161,9 @@ def main(argv: list[str] | None = None, report: Callable[[str], None] = print) -
     parser.add_argument("--engine-cases", type=int, default=10_000)
     parser.add_argument("--engine-reference-cases", type=int, default=300)
     parser.add_argument("--json", action="store_true", help="print one JSON object")
+    parser.add_argument("--baseline", type=Path, help="source tree to compare with")
     args = parser.parse_args(argv)
+    baseline = args.baseline.resolve() if args.baseline else None
     results: dict[str, object] = {"repeat": args.repeat}
     with tempfile.TemporaryDirectory(prefix="dropcalc-bench-") as folder:
         paths = write_inputs(Path(folder), args.batch_rows)
@@ -137,16 +173,27 @@ def main(argv: list[str] | None = None, report: Callable[[str], None] = print) -
             if name == "engine":
                 ratio = engine_ratio(args.engine_cases, args.engine_reference_cases)
                 results["engine_speedup"] = ratio
+                line = f"{'engine':16s} {ratio:8.0f}x  (vs solve_ivp loop, same run)"
+                if baseline is not None:
+                    base = engine_ratio(args.engine_cases, args.engine_reference_cases, baseline)
+                    results["baseline_engine_speedup"] = base
+                    line += f"; baseline {base:.0f}x"
                 if not args.json:
-                    report(f"{'engine':16s} {ratio:8.0f}x  (vs solve_ivp loop, same run)")
+                    report(line)
                 continue
             if name not in chosen:
                 raise SystemExit(f"unknown workload {name!r}; choose from {', '.join(chosen)}")
-            median, times, _ = time_command(chosen[name], args.repeat, Path(folder))
-            results[name] = {"median_s": median, "times_s": times}
+            timing = time_command(chosen[name], args.repeat, Path(folder), baseline)
+            results[name] = timing
             if not args.json:
-                spread = ", ".join(f"{t:.2f}" for t in times)
-                report(f"{name:16s} {median:8.2f} s  ({spread})")
+                spread = ", ".join(f"{t:.2f}" for t in timing["times_s"])
+                line = f"{name:16s} {timing['median_s']:8.2f} s  ({spread})"
+                if baseline is not None:
+                    line += (
+                        f"  baseline {timing['baseline_median_s']:6.2f} s"
+                        f"  speed-up {timing['speedup']:5.2f}x"
+                    )
+                report(line)
     if args.json:
         report(json.dumps(results))
     return results

@@ -55,8 +55,20 @@ ZONE_TOLERANCE = 1e-6
 DEFAULT_TURBULENCE_INTENSITY = 0.2
 #: Margin added to the zone radius [m] (common practice, no source; the user sets it).
 DEFAULT_MARGIN = 2.0
-#: Samples per object in the first round, and the most per object.
+#: Samples per object in the first full round, and the most per object.
 INITIAL_SAMPLES = 20_000
+#: Samples per object in the pilot round that screens out objects that cannot drive the zone,
+#: and the fewest samples beyond the quantile it must hold (so 10 / (1 - p) at least).
+PILOT_SAMPLES = 2_000
+PILOT_TAIL_SAMPLES = 10
+#: Samples beyond the quantile that a full round must hold: a driving object gets at least
+#: 50 / (1 - p) samples, so that the quantile's interval lies among observed samples (common
+#: practice, no source: 50 keeps the distribution-free interval of the quantile, +-1.96
+#: sqrt(n p (1 - p)) ranks, within the sample at any p).
+TAIL_SAMPLES = 50
+#: Standard errors by which an object's pilot quantile must fall short of the leader's to be
+#: screened out.
+SCREEN_SIGMAS = 3.0
 MAX_SAMPLES = 1_280_000
 #: Standard error of the radius aimed at, relative to the radius.
 DEFAULT_RELATIVE_ERROR = 0.01
@@ -338,12 +350,34 @@ def _rest_positions(
     tilt_azimuth: np.ndarray,
     obj: ZoneObject,
     settings: ZoneSettings,
-) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
-    """Solve falls and add the scatter: rest offsets (2, n), air drift (n), landed (n)."""
-    solution = _land(obj_mass, drag_area, density, wind_speed, wind_toward, velocity0, settings)
-    return _rest_after_landing(
-        solution, e_n, e_t, friction, rolling_resistance, tilt, tilt_azimuth, obj, settings
+) -> tuple[np.ndarray, np.ndarray, np.ndarray, float]:
+    """Solve falls and add the scatter; also say how far the fall table may be off.
+
+    Returns rest offsets (2, n), air drift (n), landed (n), and the largest error of a rest
+    distance read from the fall table (0 when solved directly) [m].
+
+    Straight drops of many samples read their landings from a table (:func:`_land_by_table`);
+    the first :data:`FALL_TABLE_CHECKS` of them are also solved directly, those direct results
+    are kept, and the largest difference of their rest distances from the table's is returned
+    so that the caller can count it in the reported error.
+    """
+    scatter = (e_n, e_t, friction, rolling_resistance, tilt, tilt_azimuth)
+    table = None
+    if obj_mass.size >= FALL_TABLE_MIN_SAMPLES and not np.any(velocity0):
+        k = density * drag_area / (2.0 * obj_mass)
+        table = _land_by_table(k, wind_speed, wind_toward, settings)
+    if table is None:
+        solution = _land(obj_mass, drag_area, density, wind_speed, wind_toward, velocity0, settings)
+        return (*_rest_after_landing(solution, *scatter, obj, settings), 0.0)
+    tabled, direct = table
+    check = np.arange(direct.time.size)
+    rest, drift, landed = _rest_after_landing(tabled, *scatter, obj, settings)
+    exact = _rest_after_landing(
+        direct, *(None if a is None else a[check] for a in scatter), obj, settings
     )
+    error = float(np.max(np.abs(np.hypot(*exact[0]) - np.hypot(*rest[:, check]))))
+    rest[:, check], drift[check], landed[check] = exact
+    return rest, drift, landed, error
 
 
 def _land(
@@ -371,6 +405,111 @@ def _land(
         tolerance=ZONE_TOLERANCE,
         max_distance=CARRIED_AWAY,
     )
+
+
+#: Nodes of the fall table over log k and over the 10 m wind speed (Chebyshev points).
+FALL_TABLE_NODES = (13, 13)
+#: Samples below which the table is not worth building; the falls are solved directly.
+FALL_TABLE_MIN_SAMPLES = 1_000
+#: Samples solved directly as well in every tabled call, to measure the table's error.
+FALL_TABLE_CHECKS = 32
+
+
+def _chebyshev_weights(x: np.ndarray, low: float, high: float, count: int) -> np.ndarray:
+    """Barycentric interpolation weights (len(x), count) on Chebyshev points of [low, high].
+
+    Interpolation through Chebyshev points of the second kind, x_j = cos(j pi / (m - 1)),
+    in the barycentric form p(x) = sum_j (w_j / (x - x_j)) f_j / sum_j (w_j / (x - x_j)) with
+    w_j = (-1)^j, halved at the two ends ([BT-2004], eq. 5.1 and sec. 6). A single node (an
+    interval of zero width) gives weight 1.
+    """
+    if count == 1 or not high > low:
+        return np.ones((x.size, 1))
+    nodes = _chebyshev_nodes(low, high, count)
+    w = (-1.0) ** np.arange(count)
+    w[0] *= 0.5
+    w[-1] *= 0.5
+    diff = x[:, None] - nodes[None, :]
+    exact = diff == 0.0
+    diff[exact] = 1.0
+    terms = w / diff
+    hit = exact.any(axis=1)
+    terms[hit] = exact[hit]
+    return terms / terms.sum(axis=1, keepdims=True)
+
+
+def _chebyshev_nodes(low: float, high: float, count: int) -> np.ndarray:
+    if count == 1 or not high > low:
+        return np.array([low])
+    return 0.5 * (low + high) + 0.5 * (high - low) * np.cos(np.pi * np.arange(count) / (count - 1))
+
+
+def _land_by_table(
+    k: np.ndarray, wind_speed: np.ndarray, wind_toward: np.ndarray, settings: ZoneSettings
+) -> tuple[FallSolution, FallSolution] | None:
+    """Landings of straight drops (no initial velocity) read from a table, or None.
+
+    A drop from rest is fixed by its drag parameter k and the 10 m wind speed U; the wind
+    direction only turns it about the vertical. So the falls are solved on a small grid of
+    Chebyshev points in (log k, U) (:data:`FALL_TABLE_NODES`) in the wind's own frame, and
+    the drift, fall time and the along-wind and vertical landing speeds of every sample are
+    interpolated from it ([BT-2004]) and turned to the sample's wind direction. In the same
+    engine call the first :data:`FALL_TABLE_CHECKS` samples are solved directly.
+
+    Returns
+    -------
+    (FallSolution, FallSolution) or None
+        The table's landings of all samples and the direct ones of the checked samples; None
+        when a node or a checked sample was carried away (the caller then solves directly).
+    """
+    from dataclasses import replace
+
+    log_k = np.log(k)
+    span_k = float(log_k.min()), float(log_k.max())
+    span_u = float(wind_speed.min()), float(wind_speed.max())
+    nodes_k = _chebyshev_nodes(*span_k, FALL_TABLE_NODES[0])
+    nodes_u = _chebyshev_nodes(*span_u, FALL_TABLE_NODES[1])
+    grid_k, grid_u = np.meshgrid(nodes_k, nodes_u, indexing="ij")
+    checks = min(FALL_TABLE_CHECKS, k.size)
+    lanes_k = np.concatenate([np.exp(grid_k.ravel()), k[:checks]])
+    lanes_u = np.concatenate([grid_u.ravel(), wind_speed[:checks]])
+    base = wind_field(settings.wind, lanes_u)
+    solved = solve_falls(
+        settings.height, np.zeros(3), lanes_k, gravity=settings.gravity,
+        wind=replace(base, toward_east=1.0, toward_north=0.0),
+        tolerance=ZONE_TOLERANCE, max_distance=CARRIED_AWAY,
+    )  # fmt: skip
+    if not np.all(solved.landed):
+        return None
+    weights_k = _chebyshev_weights(log_k, *span_k, nodes_k.size)
+    weights_u = _chebyshev_weights(wind_speed, *span_u, nodes_u.size)
+    table = grid_k.size
+
+    def read(values: np.ndarray) -> np.ndarray:
+        return np.einsum("ni,ij,nj->n", weights_k, values[:table].reshape(grid_k.shape), weights_u)
+
+    def turned(
+        drift: np.ndarray,
+        time: np.ndarray,
+        along: np.ndarray,
+        down: np.ndarray,
+        toward_deg: np.ndarray,
+    ) -> FallSolution:
+        toward = np.radians(toward_deg)
+        east, north = np.sin(toward), np.cos(toward)
+        n = drift.size
+        return FallSolution(
+            time,
+            np.vstack([drift * east, drift * north, np.zeros(n)]),
+            np.vstack([along * east, along * north, down]),
+            np.ones(n, dtype=bool),
+            np.zeros(n, dtype=np.int64),
+        )
+
+    x, t, v = solved.position[0], solved.time, solved.velocity
+    tabled = turned(read(x), read(t), read(v[0]), read(v[2]), wind_toward)
+    direct = turned(x[table:], t[table:], v[0, table:], v[2, table:], wind_toward[:checks])
+    return tabled, direct
 
 
 def _rest_after_landing(
@@ -418,6 +557,13 @@ def sample_object(
     obj: ZoneObject, settings: ZoneSettings, n: int, rng: np.random.Generator
 ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """Draw ``n`` drops of one object: rest offsets (2, n), air drift (n), landed (n)."""
+    return _sample_object(obj, settings, n, rng)[:3]
+
+
+def _sample_object(
+    obj: ZoneObject, settings: ZoneSettings, n: int, rng: np.random.Generator
+) -> tuple[np.ndarray, np.ndarray, np.ndarray, float]:
+    """:func:`sample_object`, and the fall table's largest rest-distance error [m]."""
     unc = settings.uncertainty
     mean, gust = _mean_and_gust(settings)
     i_v = _turbulence(settings)
@@ -646,11 +792,16 @@ def compute_zone(
 ) -> ZoneResult:
     """Exclusion zone for the objects: per-object quantiles, envelope, and the driving object.
 
-    Each object is sampled on its own (``INITIAL_SAMPLES`` at first) and its quantile of rest
-    distance taken; sampling doubles for the objects that could still drive the zone until the
-    driving quantile's standard error is below ``relative_error`` of it (or ``max_samples``).
-    The zone radius is the largest per-object radius: every object listed is covered at the
-    confidence, not just the mixture.
+    Each object is sampled on its own and its quantile of rest distance taken. With several
+    objects a pilot round (:data:`PILOT_SAMPLES`, at least 10 / (1 - p)) screens out those whose
+    quantile lies more than :data:`SCREEN_SIGMAS` standard errors short of the leader's: they keep
+    their pilot figures (with the pilot's larger standard error). The others get a full round
+    (``INITIAL_SAMPLES``, at least 50 / (1 - p)), and sampling doubles for the objects that
+    could still drive the zone until the driving quantile's standard error is below
+    ``relative_error`` of it (or ``max_samples``). The zone radius is the largest per-object
+    radius: every object listed is covered at the confidence, not just the mixture. Straight
+    drops read their landings from a fall table (:func:`_land_by_table`); the largest error of
+    it measured against direct solves is added to the reported standard error.
 
     Parameters
     ----------
@@ -675,31 +826,49 @@ def compute_zone(
     p = settings.confidence
     offsets: list[list[np.ndarray]] = [[] for _ in objects]
     drifts: list[list[np.ndarray]] = [[] for _ in objects]
+    reuse = np.zeros(len(objects))  # largest fall-table error of each object [m]
     counts = np.zeros(len(objects), dtype=int)
-    active = list(range(len(objects)))
-    target = INITIAL_SAMPLES
-    while active:
-        for i in active:
-            need = target - counts[i]
-            rest, drift, _ = sample_object(objects[i], settings, need, rng)
+
+    def sample(indices: list[int], target: int) -> None:
+        for i in indices:
+            rest, drift, _, error = _sample_object(objects[i], settings, target - counts[i], rng)
             offsets[i].append(rest)
             drifts[i].append(drift)
+            reuse[i] = max(reuse[i], error)
             counts[i] = target
         if progress is not None:
             progress(int(counts.sum()), int(counts.sum()))
-        stats = []
-        for i in range(len(objects)):
-            d = np.hypot(*np.concatenate(offsets[i], axis=1))
-            stats.append(quantile_with_error(d, p))
-        q = np.array([s[0] for s in stats])
-        se = np.array([s[1] for s in stats])
+
+    def statistics() -> tuple[np.ndarray, np.ndarray]:
+        found = [
+            quantile_with_error(np.hypot(*np.concatenate(offsets[i], axis=1)), p)
+            for i in range(len(objects))
+        ]
+        return np.array([q for q, _ in found]), np.array([e for _, e in found]) + reuse
+
+    def could_drive(q: np.ndarray, se: np.ndarray, sigmas: float) -> list[int]:
         lead = int(np.argmax(q))
         with np.errstate(invalid="ignore"):  # inf - inf where samples were carried away
-            contenders = [
-                i for i in range(len(objects)) if not q[i] + 2 * se[i] < q[lead] - 2 * se[lead]
+            return [
+                i
+                for i in range(len(objects))
+                if not q[i] + sigmas * se[i] < q[lead] - sigmas * se[lead]
             ]
+
+    # Screen: a pilot round for every object; only those that could still drive the zone go on.
+    full = min(max(INITIAL_SAMPLES, math.ceil(TAIL_SAMPLES / (1 - p))), settings.max_samples)
+    pilot = min(max(PILOT_SAMPLES, math.ceil(PILOT_TAIL_SAMPLES / (1 - p))), full)
+    active = list(range(len(objects)))
+    if len(objects) > 1 and pilot < full:
+        sample(active, pilot)
+        active = could_drive(*statistics(), SCREEN_SIGMAS)
+    # Refine: sampling doubles for the contenders until the driving quantile is settled.
+    target = full
+    while active:
+        sample(active, target)
+        q, se = statistics()
         unsure = [
-            i for i in contenders
+            i for i in could_drive(q, se, 2.0)
             if math.isfinite(q[i])  # a quantile among carried-away samples is settled: no zone
             and se[i] > settings.relative_error * max(q[i], 1e-3)
             and counts[i] < settings.max_samples
@@ -727,7 +896,7 @@ def compute_zone(
                     if math.isfinite(q_rest) and math.isfinite(q_drift)
                     else math.inf
                 ),
-                standard_error=se_rest,
+                standard_error=se_rest + reuse[i],
                 samples=int(distance.size),
                 max_sampled=float(finite.max()) if finite.size else math.inf,
                 worst_case=worst + settings.margin,
@@ -750,9 +919,9 @@ def highest_wind(
 ) -> float:
     """Highest mean wind at 10 m [m/s] for which the zone radius stays within ``distance``.
 
-    Bisection on the wind speed with the same random numbers at every trial (common random
-    numbers keep the radius a smooth, increasing function of the speed); 0 when even still air
-    needs more, ``high`` when even that fits.
+    Regula falsi (:func:`_shrink_bracket`) on the wind speed with the same random numbers at
+    every trial (common random numbers keep the radius a smooth, increasing function of the
+    speed), to 0.05 m/s; 0 when even still air needs more, ``high`` when even that fits.
     """
     from dataclasses import replace
 
@@ -762,18 +931,16 @@ def highest_wind(
             objects, replace(settings, wind=wind, max_samples=INITIAL_SAMPLES), envelope=False
         ).radius
 
-    if radius_at(low) > distance:
+    at_low = radius_at(low) - distance
+    if at_low > 0:
         return low
-    if radius_at(high) <= distance:
+    at_high = radius_at(high) - distance
+    if at_high <= 0:
         return high
-    for _ in range(30):
-        mid = 0.5 * (low + high)
-        if radius_at(mid) <= distance:
-            low = mid
-        else:
-            high = mid
-        if high - low < 0.05:
-            break
+    low, _ = _shrink_bracket(
+        lambda speed: radius_at(speed) - distance, (low, at_low), (high, at_high),
+        lambda lo, hi: hi - lo < 0.05,
+    )  # fmt: skip
     return low
 
 
@@ -800,8 +967,8 @@ def greatest_height(
 ) -> float:
     """Greatest work height [m] for which the zone radius stays within ``distance``.
 
-    Bisection on the height with common random numbers; 0 when even ``low`` needs more,
-    ``high`` when even that fits.
+    Regula falsi (:func:`_shrink_bracket`) on the logarithm of the height with common random
+    numbers, to 0.2 %; 0 when even ``low`` needs more, ``high`` when even that fits.
     """
     from dataclasses import replace
 
@@ -812,19 +979,59 @@ def greatest_height(
             envelope=False,
         ).radius
 
-    if radius_at(low) > distance:
+    def excess(log_height: float) -> float:
+        # log(radius / distance): nearly linear in log(height), as the radius grows about as a
+        # power of the height; the regula falsi then needs few steps.
+        radius = radius_at(math.exp(log_height))
+        with np.errstate(divide="ignore"):
+            return float(np.log(radius) - np.log(distance)) if distance > 0 else radius
+
+    at_low = excess(math.log(low))
+    if at_low > 0:
         return 0.0
-    if radius_at(high) <= distance:
+    at_high = excess(math.log(high))
+    if at_high <= 0:
         return high
-    for _ in range(40):
-        mid = math.sqrt(low * high)
-        if radius_at(mid) <= distance:
-            low = mid
-        else:
-            high = mid
-        if high / low < 1.002:
+    log_low, _ = _shrink_bracket(
+        excess,
+        (math.log(low), at_low), (math.log(high), at_high),
+        lambda lo, hi: hi - lo < math.log(1.002),
+    )  # fmt: skip
+    return math.exp(log_low)
+
+
+def _shrink_bracket(
+    f: Callable[[float], float],
+    low: tuple[float, float],
+    high: tuple[float, float],
+    close_enough: Callable[[float, float], bool],
+) -> tuple[float, float]:
+    """Shrink a bracket with f(low) <= 0 < f(high) until ``close_enough(low, high)``.
+
+    Regula falsi, Illinois variant: the value kept at the end that did not move is halved, so
+    both ends close in ([DJ-1971]); a bisection step wherever f is infinite (carried away).
+    On a smooth monotone f it needs a handful of evaluations where bisection needs a dozen.
+    """
+    (lo, f_lo), (hi, f_hi) = low, high
+    side = 0
+    for _ in range(60):
+        if close_enough(lo, hi):
             break
-    return low
+        width = hi - lo
+        x = lo + 0.5 * width
+        if math.isfinite(f_lo) and math.isfinite(f_hi) and f_hi > f_lo:
+            # Keep a step off the ends, where a secant step gains least.
+            x = min(max(hi - f_hi * width / (f_hi - f_lo), lo + 0.02 * width), hi - 0.02 * width)
+        fx = f(x)
+        if fx <= 0:
+            lo, f_lo = x, fx
+            f_hi = 0.5 * f_hi if side == -1 else f_hi
+            side = -1
+        else:
+            hi, f_hi = x, fx
+            f_lo = 0.5 * f_lo if side == 1 else f_lo
+            side = 1
+    return lo, hi
 
 
 @dataclass(frozen=True)
@@ -869,6 +1076,7 @@ def site_zone(
 
     segments = []
     footprints = []
+    solved: dict[tuple[float, float], ZoneResult] = {}
     for e, edge in enumerate(site.edges):
         for i, (nx, ny) in enumerate(segment_normals(site, edge)):
             azimuth = math.degrees(math.atan2(nx, ny)) % 360.0
@@ -877,7 +1085,15 @@ def site_zone(
                 # No wind direction given: the conservative one for this segment, straight out.
                 wind = replace(settings.wind, from_direction_deg=(azimuth + 180.0) % 360.0)
                 local = replace(local, wind=wind)
-            result = compute_zone(objects, local, progress)
+            # A segment with the same height and the same wind relative to its edge as one
+            # already solved gets that zone turned to its own azimuth (everything sampled is
+            # either relative to the edge and the wind or uniform in direction).
+            relative = (local.wind.from_direction_deg - azimuth) % 360.0
+            key = (edge.height, round(relative, 9) if local.wind.speed_10m else 0.0)
+            if key in solved:
+                result = _turned(solved[key], local)
+            else:
+                result = solved[key] = compute_zone(objects, local, progress)
             segments.append((edge.name, i, result))
             for zone_ in result.objects:
                 rest = zone_.offsets[:, np.all(np.isfinite(zone_.offsets), axis=0)]
@@ -886,6 +1102,25 @@ def site_zone(
     area = exclusion_area(site, footprints, settings.margin)
     driver = max(segments, key=lambda item: item[2].radius)
     return SiteZone(area, tuple(segments), driver)
+
+
+def _turned(result: ZoneResult, settings: ZoneSettings) -> ZoneResult:
+    """A zone turned about the release point to the edge azimuth of ``settings``."""
+    from dataclasses import replace
+
+    angle = math.radians(settings.edge_azimuth - result.settings.edge_azimuth)
+    c, s = math.cos(angle), math.sin(angle)
+    # Compass bearings turn clockwise: (east, north) -> (e cos + n sin, -e sin + n cos).
+    turn = np.array([[c, s], [-s, c]])
+    objects = tuple(replace(zone_, offsets=turn @ zone_.offsets) for zone_ in result.objects)
+    by_name = {id(old): new for old, new in zip(result.objects, objects, strict=True)}
+    return replace(
+        result,
+        settings=settings,
+        objects=objects,
+        driver=by_name[id(result.driver)],
+        worst_case_driver=by_name.get(id(result.worst_case_driver), result.worst_case_driver),
+    )
 
 
 def zone_object(obj: object) -> ZoneObject:
