@@ -24,7 +24,6 @@ from __future__ import annotations
 import csv
 import json
 import math
-import time
 from pathlib import Path
 from typing import Any
 
@@ -696,19 +695,17 @@ def _big_list(path: Path, rows: int) -> None:
 
 
 @pytest.mark.slow
-def test_ten_thousand_rows_in_under_5_seconds(tmp_path):
+def test_ten_thousand_rows_are_all_solved(tmp_path):
+    # Speed is measured by benchmarks/commands.py (batch workloads), not asserted here.
     path = tmp_path / "big.csv"
     _big_list(path, 10_000)
     settings = BatchSettings(wind=wind_spec(12.0, terrain="suburban"))
-    start = time.perf_counter()
     frame = read_table(path)
     items, errors = parse_items(frame, load_library(), settings)
     rows = solve_items(items, settings)
-    elapsed = time.perf_counter() - start
     assert errors == []
     assert len(rows) == 10_000
     assert all(r["impact_energy_max_j"] is not None for r in rows)
-    assert elapsed < 5.0, f"10,000 rows took {elapsed:.2f} s"
 
 
 def test_a_huge_cell_is_named_but_not_quoted_whole(tmp_path):

@@ -324,16 +324,32 @@ def parse_items(
 
 
 def _solve(heights: np.ndarray, k: np.ndarray, settings: BatchSettings) -> FallSolution:
+    """Solve the falls from ``heights`` with drag parameters ``k``, each distinct pair once.
+
+    Every row of a batch shares the release, wind and air, so a fall is fixed by its (height,
+    k): a list of thousands of rows names a few hundred objects, and the engine solves only the
+    distinct pairs (each lane is integrated on its own, so the results are the same).
+    """
+    pairs, inverse = np.unique(np.stack([heights, k]), axis=1, return_inverse=True)
+    inverse = inverse.reshape(-1)
     v0 = np.asarray(
         initial_velocity(settings.release, settings.edge_azimuth, settings.gravity), dtype=float
     )
-    return solve_falls(
-        heights,
-        v0.reshape(3, 1) * np.ones((1, heights.size)),
-        k,
+    distinct = pairs.shape[1]
+    solved = solve_falls(
+        pairs[0],
+        v0.reshape(3, 1) * np.ones((1, distinct)),
+        pairs[1],
         max_distance=CARRIED_AWAY_DISTANCE,
         gravity=settings.gravity,
-        wind=wind_field(settings.wind, np.full(heights.size, settings.wind.speed_10m)),
+        wind=wind_field(settings.wind, np.full(distinct, settings.wind.speed_10m)),
+    )
+    return FallSolution(
+        solved.time[inverse],
+        solved.position[:, inverse],
+        solved.velocity[:, inverse],
+        solved.landed[inverse],
+        solved.steps[inverse],
     )
 
 
@@ -518,23 +534,37 @@ def _energy_equivalents(items: Sequence[Item], level: ReferenceLevel) -> np.ndar
     return np.array([level.value * it.contact_area if it.contact_area else np.nan for it in items])
 
 
+#: Safe heights remembered across chunks at most (a list of custom objects can have as many
+#: distinct ones as rows; the memo is emptied when full).
+SAFE_HEIGHT_MEMO_SIZE = 100_000
+
+
 def solve_items(
     items: Sequence[Item],
     settings: BatchSettings,
     progress: Callable[[int, int], None] | None = None,
+    memo: dict[tuple[float, float, float], float] | None = None,
 ) -> list[dict[str, Any]]:
-    """Compute the output row of every item (dicts with unit-suffixed keys, unsorted)."""
+    """Compute the output row of every item (dicts with unit-suffixed keys, unsorted).
+
+    ``memo`` keeps the safe heights solved so far by (mass, k, energy level): a caller that
+    solves a long list in parts passes the same dict to every part, so that an object met in
+    every part is solved once (the settings must be the same throughout).
+    """
     rows: list[dict[str, Any]] = []
     total = len(items)
+    memo = {} if memo is None else memo
     for start in range(0, total, CHUNK_ROWS):
         chunk = list(items[start : start + CHUNK_ROWS])
-        rows.extend(_solve_chunk(chunk, settings))
+        rows.extend(_solve_chunk(chunk, settings, memo))
         if progress is not None:
             progress(min(start + CHUNK_ROWS, total), total)
     return rows
 
 
-def _solve_chunk(items: Sequence[Item], settings: BatchSettings) -> list[dict[str, Any]]:
+def _solve_chunk(
+    items: Sequence[Item], settings: BatchSettings, memo: dict[tuple[float, float, float], float]
+) -> list[dict[str, Any]]:
     n = len(items)
     mass = np.array([it.mass for it in items])
     height = np.array([it.height for it in items])
@@ -567,7 +597,15 @@ def _solve_chunk(items: Sequence[Item], settings: BatchSettings) -> list[dict[st
     safe = np.full(pair_energy.size, np.nan)
     if np.any(valid):
         unique, inverse = np.unique(keys[valid], axis=0, return_inverse=True)
-        solved = safe_heights(unique[:, 0], unique[:, 1], unique[:, 2], settings)
+        pairs = [tuple(key) for key in unique.tolist()]
+        missing = [i for i, key in enumerate(pairs) if key not in memo]
+        if missing:
+            if len(memo) + len(missing) > SAFE_HEIGHT_MEMO_SIZE:
+                memo.clear()
+            new = unique[missing]
+            found = safe_heights(new[:, 0], new[:, 1], new[:, 2], settings)
+            memo.update(zip((pairs[i] for i in missing), found.tolist(), strict=True))
+        solved = np.array([memo[key] for key in pairs])
         safe[valid] = solved[inverse.reshape(-1)]
     safe = safe.reshape(len(levels), n) if levels else safe.reshape(0, n)
 

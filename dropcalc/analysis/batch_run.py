@@ -2,7 +2,8 @@
 
 The list is read in chunks (:data:`CHUNK_ROWS` rows), each chunk solved and its rows sorted and
 written to a temporary file; the outputs then stream the chunks merged in energy order
-(:func:`heapq.merge`), so memory holds one chunk and one row per chunk, not the whole list.
+(:func:`heapq.merge`), so memory holds one chunk and a block of rows per chunk, not the whole
+list.
 """
 
 from __future__ import annotations
@@ -12,6 +13,7 @@ import csv
 import heapq
 import io
 import json
+import pickle
 import tempfile
 from collections.abc import Callable, Iterator
 from dataclasses import dataclass, field
@@ -170,7 +172,7 @@ class BatchRun:
 
     def rows(self) -> Iterator[dict[str, Any]]:
         """Good rows by energy (highest first), then failed rows in input order."""
-        streams = [_read_lines(p) for p in self.chunk_files]
+        streams = [_read_chunk(p) for p in self.chunk_files]
         yield from heapq.merge(*streams, key=_sort_key)
         if self.error_file is not None:
             yield from _read_lines(self.error_file)
@@ -184,6 +186,37 @@ def _read_lines(path: Path) -> Iterator[dict[str, Any]]:
     with path.open(encoding="utf-8") as handle:
         for line in handle:
             yield json.loads(line)
+
+
+#: Rows pickled together in a chunk file (what one chunk's stream holds in memory while merging).
+PICKLE_BLOCK_ROWS = 500
+
+
+def _write_chunk(path: Path, rows: list[dict[str, Any]]) -> None:
+    """Write solved rows (all with the same keys) as pickled blocks of value tuples.
+
+    The chunk files are this process's own, in its private temporary folder, read back only
+    by :func:`_read_chunk`: pickle is about ten times faster than JSON here, which counted for a
+    quarter of a 100,000-row batch.
+    """
+    columns = list(rows[0]) if rows else []
+    with path.open("wb") as handle:
+        pickle.dump(columns, handle, protocol=pickle.HIGHEST_PROTOCOL)
+        for start in range(0, len(rows), PICKLE_BLOCK_ROWS):
+            block = [tuple(row.values()) for row in rows[start : start + PICKLE_BLOCK_ROWS]]
+            pickle.dump(block, handle, protocol=pickle.HIGHEST_PROTOCOL)
+
+
+def _read_chunk(path: Path) -> Iterator[dict[str, Any]]:
+    with path.open("rb") as handle:
+        columns = pickle.load(handle)
+        while True:
+            try:
+                block = pickle.load(handle)
+            except EOFError:
+                return
+            for values in block:
+                yield dict(zip(columns, values, strict=True))
 
 
 #: Failed rows kept in memory for the terminal's error lines (all are in the outputs).
@@ -202,6 +235,7 @@ def run_batch(
     total = _count_lines(path) if progress is not None and path.suffix.lower() != ".xlsx" else 0
     library = None
     done = 0
+    memo: dict[tuple[float, float, float], float] = {}  # safe heights, shared by the chunks
     try:
         for index, (first_row, frame) in enumerate(iter_chunks(path)):
             if index == 0:
@@ -213,12 +247,12 @@ def run_batch(
             if library is None and "id" in frame.columns:
                 library = library_loader()
             items, errors = parse_items(frame, library, settings, first_row=first_row)
-            rows = sorted(solve_items(items, settings), key=_sort_key)
+            rows = sorted(solve_items(items, settings, memo=memo), key=_sort_key)
             if rows:
                 if not run.columns:
                     run.columns = list(rows[0])
-                chunk_file = Path(folder.name) / f"chunk-{index}.jsonl"
-                _write_lines(chunk_file, rows)
+                chunk_file = Path(folder.name) / f"chunk-{index}.pickle"
+                _write_chunk(chunk_file, rows)
                 run.chunk_files.append(chunk_file)
             if errors:
                 run.error_file = run.error_file or Path(folder.name) / "errors.jsonl"
@@ -240,12 +274,6 @@ def run_batch(
     elif "error" not in run.columns:
         run.columns.append("error")
     return run
-
-
-def _write_lines(path: Path, rows: list[dict[str, Any]]) -> None:
-    with path.open("w", encoding="utf-8") as handle:
-        for row in rows:
-            handle.write(json.dumps(row, allow_nan=False) + "\n")
 
 
 def write_run(path: Path, run: BatchRun) -> None:
