@@ -603,7 +603,7 @@ def side_view(
         sheets = any(c.plate is not None for c in cases)  # drawn at attitudes, not areas
         sections.append(
             (
-                "Drag area Cd·A (sheet: attitude)" if sheets else "Drag area Cd·A",
+                "Drag area Cd·A",
                 [
                     Line2D(
                         [], [], color=grey, lw=1.9,
