@@ -383,3 +383,61 @@ def test_bad_input_is_refused_with_a_message(tmp_path: Path, call: object, messa
     with pytest.raises(InputError, match=message):
         call(tmp_path)  # type: ignore[operator]
     assert list(tmp_path.iterdir()) == []
+
+
+# --- Issue 13: colours told apart, long names never clipped -----------------------------------
+
+
+def _lab(hex_colour: str) -> tuple[float, float, float]:
+    """CIE L*a*b* (D65) of an sRGB colour: IEC 61966-2-1 decoding, CIE 1976 formulas."""
+    rgb = [int(hex_colour[i : i + 2], 16) / 255 for i in (1, 3, 5)]
+    lin = [c / 12.92 if c <= 0.04045 else ((c + 0.055) / 1.055) ** 2.4 for c in rgb]
+    x = (0.4124 * lin[0] + 0.3576 * lin[1] + 0.1805 * lin[2]) / 0.95047
+    y = 0.2126 * lin[0] + 0.7152 * lin[1] + 0.0722 * lin[2]
+    z = (0.0193 * lin[0] + 0.1192 * lin[1] + 0.9505 * lin[2]) / 1.08883
+
+    def f(t: float) -> float:
+        return t ** (1 / 3) if t > (6 / 29) ** 3 else t / (3 * (6 / 29) ** 2) + 4 / 29
+
+    return 116 * f(y) - 16, 500 * (f(x) - f(y)), 200 * (f(y) - f(z))
+
+
+def test_object_colours_are_far_apart() -> None:
+    # The first four objects drawn (the side view's) differ by a CIE76 colour difference of at
+    # least 30 (about 2.3 units is a just-noticeable difference, Sharma 2003, from memory).
+    from dropcalc.report.figures import OBJECT_COLOURS
+
+    first = [_lab(c) for c in OBJECT_COLOURS[:4]]
+    for i in range(4):
+        for j in range(i + 1, 4):
+            assert math.dist(first[i], first[j]) > 30, (OBJECT_COLOURS[i], OBJECT_COLOURS[j])
+
+
+def test_energy_legend_keeps_long_names_whole(tmp_path: Path) -> None:
+    from dropcalc.report.figures import EnergyCurve, energy_height
+
+    names = [
+        "Steel scaffold tube 48.3 x 4.0 mm, 2.0 m (galvanised, from the site's own stock)",
+        "Scaffold double (right-angle) coupler, drop-forged",
+        "Radio",
+    ]
+    curves = [
+        EnergyCurve(label=name, mass=1.0 + i, drag_parameter=0.01, gravity=9.80665,
+                    wind=None, initial_velocity=np.zeros(3))
+        for i, name in enumerate(names)
+    ]  # fmt: skip
+    out = tmp_path / "energy.svg"
+    energy_height(out, curves, [("helmet", 49.0)], 30.0, title="t")
+    svg = out.read_text(encoding="utf-8")
+    assert "Radio" in svg
+    # Every line of every legend label fits its column (never runs off the figure), and the
+    # words are all kept (wrapped, not cut).
+    from dropcalc.report.figures import LEGEND_COLUMN_CHARACTERS, legend_layout
+
+    columns, wrapped = legend_layout(names)
+    assert columns == 1
+    for name, label in zip(names, wrapped, strict=True):
+        assert label.split() == name.split()
+        assert all(len(line) <= LEGEND_COLUMN_CHARACTERS[columns] for line in label.split("\n"))
+    short = legend_layout(["Radio", "Claw hammer, 16 oz head", "Brick"])
+    assert short == (3, ["Radio", "Claw hammer, 16 oz head", "Brick"])

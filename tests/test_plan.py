@@ -504,5 +504,6 @@ def test_plan_drawing_of_an_l_shaped_building(tmp_path: Path) -> None:
     out = tmp_path / "plan.svg"
     plot_plan(area, site, 90.0, out, title="L", wind_label="10 m/s")
     svg = out.read_text(encoding="utf-8")
-    assert "over or around the building" in svg
-    assert "not modelled" in svg
+    assert "only over or" in svg
+    assert "the building (deflection" in svg
+    assert "not modelled)" in svg

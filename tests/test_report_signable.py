@@ -282,3 +282,12 @@ def test_stop_work_wind_is_a_line_of_the_answer_page(
     assert tight["stop_work_wind_m_s"] == 0
     page = imperial["texts"][0].replace("\u00a0", " ")
     assert "1.0 m clear distance available is too small even in still air" in page
+
+
+def test_code_rule_table_says_what_each_rule_leaves_out(many: dict[str, Any]) -> None:
+    text = many["text"]
+    table = text[text.index("Distances from code rules") :]
+    rows = ["pedestrian protection not needed", "Materials kept back", "Danger areas"]
+    assert table.count("Leaves out:") == len(rows)
+    assert "not the wind" in table
+    assert "bounce and slide after landing" in table

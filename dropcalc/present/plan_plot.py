@@ -36,6 +36,9 @@ INK = "#2b2b2b"
 #: Figure size [inch] and the map's rectangle in figure fractions (left, bottom, width, height).
 FIGURE_SIZE = (10.5, 7.2)
 MAP_RECT = (0.08, 0.09, 0.64, 0.80)
+#: Figure size of the plan on the report's answer page [inch]: printed across the page
+#: (174 mm), its 8.5 pt text reads at about 7 pt.
+REPORT_FIGURE_SIZE = (8.2, 4.7)
 
 
 def nice_length(span: float) -> float:
@@ -135,7 +138,7 @@ def _label_edges(axes: Any, site: Site, offset: float) -> None:
         axes.text(
             x,
             y,
-            f"{edge.name}\nrelease height {edge.height:.3g} m",
+            f"{edge.name}, {edge.height:.3g} m",
             rotation=angle,
             rotation_mode="anchor",
             ha="center",
@@ -160,6 +163,7 @@ def plot_plan(
     path: Path,
     title: str = "",
     wind_label: str = "",
+    size: tuple[float, float] = FIGURE_SIZE,
 ) -> None:
     """Draw the site plan with the exclusion area and write it as PNG or SVG.
 
@@ -181,6 +185,9 @@ def plot_plan(
         Title printed above the map; a plain default when empty.
     wind_label : str
         Text under the wind arrow, e.g. ``"8 m/s at 10 m"``.
+    size : (float, float)
+        Figure size (width, height) [inch]. The text keeps its point size, so a smaller figure
+        printed at a given width reads larger (the report uses :data:`REPORT_FIGURE_SIZE`).
 
     Raises
     ------
@@ -206,7 +213,7 @@ def plot_plan(
     area_fill = cividis(AREA_FILL_LEVEL)
     area_edge = cividis(AREA_EDGE_LEVEL)
 
-    figure = Figure(figsize=FIGURE_SIZE, dpi=150)
+    figure = Figure(figsize=size, dpi=150)
     FigureCanvasAgg(figure)
     axes = figure.add_axes(MAP_RECT)
 
@@ -224,7 +231,7 @@ def plot_plan(
     pad = 0.08 * span
     # Widen the shorter side so that one metre is as long east as north (equal aspect) in a
     # frame of the axes' own proportions.
-    frame_ratio = (MAP_RECT[2] * FIGURE_SIZE[0]) / (MAP_RECT[3] * FIGURE_SIZE[1])
+    frame_ratio = (MAP_RECT[2] * size[0]) / (MAP_RECT[3] * size[1])
     width, height = x1 - x0 + 2 * pad, y1 - y0 + 2 * pad
     if width / height < frame_ratio:
         width = height * frame_ratio
@@ -310,17 +317,18 @@ def plot_plan(
     )
 
     # Key panel on the right.
-    key = figure.add_axes((0.745, 0.52, 0.24, 0.37))
+    compact = size[1] < 6.0  # the report's plan: the key takes more of the height
+    key = figure.add_axes((0.745, 0.36, 0.25, 0.56) if compact else (0.745, 0.52, 0.24, 0.37))
     key.axis("off")
     handles = [
         Patch(
             facecolor=area_fill,
             edgecolor=area_edge,
             lw=1.8,
-            label=f"exclusion area, {format_area(area.area_m2)} m²\n"
-            f"reaches {keep_clear(area.max_distance_m)} m from\nthe nearest work edge",
+            label=f"exclusion area\n{format_area(area.area_m2)} m², reaches\n"
+            f"{keep_clear(area.max_distance_m)} m from the\nnearest work edge",
         ),
-        Line2D([], [], color=WORK_EDGE_COLOUR, lw=3.2, label="work edge"),
+        Line2D([], [], color=WORK_EDGE_COLOUR, lw=3.2, label="work edge, with its\nrelease height"),
     ]
     if has_beyond:
         handles.insert(
@@ -330,8 +338,8 @@ def plot_plan(
                 edgecolor=area_edge,
                 hatch="///",
                 lw=0.0,
-                label=f"of which {format_area(area.beyond_building_m2)} m² reached\n"
-                "only over or around the building\n(deflection off the structure\nis not modelled)",
+                label=f"of it {format_area(area.beyond_building_m2)} m² reached\nonly over or "
+                "around\nthe building (deflection\noff the structure is\nnot modelled)",
             ),
         )
     if outline is not None:
@@ -342,15 +350,18 @@ def plot_plan(
         handles=handles,
         loc="upper left",
         frameon=False,
-        fontsize=9,
-        labelspacing=1.1,
+        fontsize=8 if compact else 9,
+        labelspacing=0.8 if compact else 1.1,
         handlelength=2.2,
         title="Key",
         title_fontproperties={"weight": "bold", "size": 10},
         alignment="left",
     )
-    _draw_north_arrow(figure.add_axes((0.75, 0.30, 0.10, 0.20)))
-    _draw_wind_arrow(figure.add_axes((0.875, 0.30, 0.10, 0.20)), wind_toward_deg, wind_label)
+    arrows_y, arrows_h = (0.06, 0.24) if compact else (0.30, 0.20)
+    _draw_north_arrow(figure.add_axes((0.75, arrows_y, 0.10, arrows_h)))
+    _draw_wind_arrow(
+        figure.add_axes((0.875, arrows_y, 0.10, arrows_h)), wind_toward_deg, wind_label
+    )
 
     image_format = suffix.lstrip(".")
     write_atomic(path, lambda temporary: figure.savefig(temporary, format=image_format))

@@ -49,21 +49,25 @@ def _code_rules(areas: list[WorkAreaResult]) -> list[tuple[str, str, str]]:
         rules.append(
             (
                 f"{area.name}: pedestrian protection not needed beyond H/2; barrier H/4 to H/2; "
-                "covered walkway inside H/4",
+                "covered walkway inside H/4. Leaves out: the rule uses the height only, not the "
+                f"wind (drift {area.drift_m:.3g} m here), the bounce and slide after landing "
+                f"(scatter {area.scatter_m:.3g} m) or the object.",
                 f"H = {h:.3g} m: H/2 = {h / 2:.3g} m, H/4 = {h / 4:.3g} m ({computed})",
                 "International Building Code, Table 3306.1",
             )
         )
     rules.append(
         (
-            "Materials kept back from a roof edge without guardrails",
+            "Materials kept back from a roof edge without guardrails. Leaves out: the ground "
+            "below; it is a distance on the roof, not an exclusion zone.",
             "6 ft (1.83 m) from the edge, on the roof",
             "29 CFR 1926.502(j)(7)",
         )
     )
     rules.append(
         (
-            "Danger areas / exclusion zones required, no distance given",
+            "Danger areas / exclusion zones required. Leaves out: any distance; the assessment "
+            "(this report) sizes them.",
             "the assessment must size them",
             "UK Work at Height Regulations 2005 regs 10-11; model WHS Regulations r.54-55",
         )
@@ -87,7 +91,7 @@ def build_report(job: JobResult, figure_dir: Path) -> ReportData:
         Everything the PDF shows (:func:`dropcalc.report.pdf.write_report` lays it out).
     """
     from dropcalc.physics.release import describe
-    from dropcalc.present.plan_plot import plot_plan
+    from dropcalc.present.plan_plot import REPORT_FIGURE_SIZE, plot_plan
     from dropcalc.present.text import zone_statement
 
     figure_dir.mkdir(parents=True, exist_ok=True)
@@ -104,7 +108,7 @@ def build_report(job: JobResult, figure_dir: Path) -> ReportData:
         plan_png = figure_dir / f"plan-{index}.png"
         plot_plan(
             area.zone.area, area.site, job.wind_toward_deg, plan_png,
-            title=area.name, wind_label=label,
+            title=area.name, wind_label=label, size=REPORT_FIGURE_SIZE,
         )  # fmt: skip
         areas.append(
             WorkAreaResult(
@@ -305,7 +309,20 @@ def draw_figures(job: JobResult, folder: Path, image_format: str = "png") -> dic
                 )
     figures: dict[str, Path] = {}
     side = folder / f"side-view.{image_format}"
-    side_view(side, cases, height, title="Falls from the highest edge, wind straight out")
+    wind = scenario.wind
+    if wind.speed_10m == 0:
+        side_title = "Falls from the highest edge, still air"
+    elif job.wind_outward:
+        side_title = "Falls from the highest edge, wind straight out (no direction given)"
+    else:
+        from dropcalc.physics.wind import compass_point
+
+        side_title = (
+            "Falls from the highest edge, wind turned straight out (the worst case; "
+            f"the day's wind is from {wind.from_direction_deg:.0f}°, "
+            f"{compass_point(wind.from_direction_deg)})"
+        )
+    side_view(side, cases, height, title=side_title)
     figures["side_view"] = side
     curves = [
         EnergyCurve(

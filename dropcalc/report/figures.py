@@ -5,8 +5,8 @@ ground against the distance out from the work edge. :func:`energy_height` draws 
 energy of each object against its release height with reference energy levels as labelled
 lines. :func:`fall_figure` is the side view of one ``dropcalc fall`` result.
 
-Colours come from the cividis colour map (sequential, colour-blind safe), one per object;
-everything else is a neutral grey. matplotlib is imported inside the drawing functions only
+Line colours come from a colour-blind-safe qualitative set (:data:`OBJECT_COLOURS`), one per
+object; everything else is a neutral grey. matplotlib is imported inside the drawing functions only
 (an Agg canvas on a :class:`matplotlib.figure.Figure`, no pyplot state), so importing this
 module costs nothing. Files are written through :func:`dropcalc.io.atomic.write_atomic`: an error
 while drawing or writing leaves no partial file.
@@ -50,7 +50,6 @@ ENERGY_CURVE_LOWEST = 0.5
 
 # Palette: cividis positions for the objects (its pale yellow end is avoided: low contrast on
 # white), and neutral greys for everything else.
-CIVIDIS_RANGE = (0.0, 0.78)
 GUST_LIGHTEN = 0.45
 INK = "#2b2b2b"
 STRUCTURE_FILL = "#dedcd8"
@@ -403,17 +402,22 @@ def _save(figure: Any, path: Path, image_format: str) -> None:
     write_atomic(path, write)
 
 
-def _object_colours(labels: Sequence[str]) -> dict[str, Any]:
-    """One cividis colour per distinct label, spread over :data:`CIVIDIS_RANGE`."""
-    import matplotlib
+#: Line colours, one per object: the colour-blind-safe qualitative set of [OKABE-ITO-2008]
+#: (blue, vermillion, bluish green, reddish purple, orange, sky blue, black), chosen to be told
+#: apart by hue and lightness under the common colour-vision deficiencies. Yellow is left out:
+#: it is too light on white.
+OBJECT_COLOURS = ("#0072B2", "#D55E00", "#009E73", "#CC79A7", "#E69F00", "#56B4E9", "#000000")
 
-    cividis = matplotlib.colormaps["cividis"]
+
+def _object_colours(labels: Sequence[str]) -> dict[str, Any]:
+    """One colour of :data:`OBJECT_COLOURS` per distinct label (repeating past seven)."""
+    from matplotlib.colors import to_rgba
+
     distinct = list(dict.fromkeys(labels))
-    low, high = CIVIDIS_RANGE
-    if len(distinct) == 1:
-        return {distinct[0]: cividis(0.12)}
-    positions = np.linspace(low, high, len(distinct))
-    return {label: cividis(p) for label, p in zip(distinct, positions, strict=True)}
+    return {
+        label: to_rgba(OBJECT_COLOURS[index % len(OBJECT_COLOURS)])
+        for index, label in enumerate(distinct)
+    }
 
 
 def _lighter(colour: Any, amount: float) -> tuple[float, float, float]:
@@ -763,7 +767,19 @@ def energy_height(
     curves = [(curve, energy_curve(curve, heights)) for curve in objects]
     colours = _object_colours([c.label for c in objects])
 
-    rows = math.ceil(len(objects) / min(len(objects), 3))
+    labels = []
+    for curve, energy in curves:
+        label = curve.label
+        if energy.count() < energy.size:
+            first = heights[np.argmax(np.ma.getmaskarray(energy))]
+            label += f" (carried away from {first:.3g} m)"
+        labels.append(label)
+    columns, labels = legend_layout(labels)
+    lines_per_row = [
+        max(label.count("\n") + 1 for label in labels[start : start + columns])
+        for start in range(0, len(labels), columns)
+    ]
+    rows = sum(lines_per_row)
     figure = Figure(figsize=(8.6, 5.6 + 0.22 * rows), dpi=100)
     FigureCanvasAgg(figure)
     legend_height = (0.05 + 0.26 * (rows + 1)) / (5.6 + 0.22 * rows)
@@ -778,11 +794,7 @@ def energy_height(
     axes.set_xlim(0.0, max_height * 1.01)
     axes.set_ylim(bottom, top)
 
-    for curve, energy in curves:
-        label = curve.label
-        if energy.count() < energy.size:
-            first = heights[np.argmax(np.ma.getmaskarray(energy))]
-            label += f" (carried away from {first:.3g} m)"
+    for (curve, energy), label in zip(curves, labels, strict=True):
         axes.plot(heights, energy, color=colours[curve.label], lw=2.2, label=label, zorder=4)
 
     # Reference levels: a line each, the label at the right end, spread apart if close.
@@ -841,7 +853,6 @@ def energy_height(
     axes.tick_params(labelsize=8.5, colors=INK)
     for spine in axes.spines.values():
         spine.set_color("#9a978f")
-    columns = min(len(objects), 3)
     figure.legend(
         handles=axes.get_lines()[: len(objects)],
         loc="upper left",
@@ -981,6 +992,26 @@ __all__: list[str] = [
     "side_view",
     "trajectory_paths",
 ]
+
+
+#: Characters of 8.5 pt legend text that fit one column of the 8.6 in energy figure, by the
+#: number of columns (measured on DejaVu Sans: about 4.7 pt a character).
+LEGEND_COLUMN_CHARACTERS = {3: 31, 2: 50, 1: 100}
+
+
+def legend_layout(labels: Sequence[str]) -> tuple[int, list[str]]:
+    """Columns for the energy figure's legend and the labels wrapped to fit them.
+
+    As many columns (3, 2 or 1) as the longest label allows; a label longer than one column
+    wraps onto more lines, so no name runs off the figure.
+    """
+    import textwrap
+
+    longest = max((len(label) for label in labels), default=0)
+    columns = next((n for n in (3, 2) if longest <= LEGEND_COLUMN_CHARACTERS[n]), 1)
+    columns = max(1, min(len(labels), columns))
+    width = LEGEND_COLUMN_CHARACTERS[columns]
+    return columns, ["\n".join(textwrap.wrap(label, width)) or label for label in labels]
 
 
 def _short(label: str, width: int = 30) -> str:

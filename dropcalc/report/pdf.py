@@ -455,8 +455,8 @@ def _work_area_box(
     area: WorkAreaResult, data: ReportData, styles: dict[str, ParagraphStyle]
 ) -> Flowable:
     """One work area: the distance to keep clear, what it rests on, and its plan."""
-    plan_width = 98 * mm
-    text_width = FRAME_WIDTH - plan_width - 4 * mm
+    plan_width = FRAME_WIDTH - 12
+    text_width = FRAME_WIDTH
     heights = ", ".join(dict.fromkeys(f"{sig(h)}\u00a0m" for h in area.heights_m)) or "—"
     made_of = (
         f"drift {sig(area.drift_m)}\u00a0m + scatter {sig(area.scatter_m)}\u00a0m + "
@@ -489,7 +489,7 @@ def _work_area_box(
         [Paragraph(_text(label), styles["label"]), Paragraph(_text(value), styles["value"])]
         for label, value in facts
     ]
-    fact_table = Table(fact_cells, colWidths=[17 * mm, text_width - 17 * mm - 12])
+    fact_table = Table(fact_cells, colWidths=[20 * mm, text_width - 20 * mm - 12])
     fact_table.setStyle(
         TableStyle(
             [
@@ -529,29 +529,32 @@ def _work_area_box(
                 bulletText="!",
             )
         )
-    plan = _image(area.plan_png, plan_width - 4, 54 * mm)
-    right: Flowable = (
+    plan = _image(area.plan_png, plan_width, 104 * mm)
+    drawing: Flowable = (
         plan if plan is not None else Paragraph("Plan drawing not available.", styles["note"])
     )
     table = Table(
         [
             [Paragraph(f"Work area: {_text(area.name)}", styles["area_name"]), ""],
             [headline, ""],
-            [fact_table, right],
+            [fact_table, ""],
+            [drawing, ""],
         ],
-        colWidths=[text_width, plan_width + 4 * mm],
+        colWidths=[text_width / 2, text_width / 2],
     )
     table.setStyle(
         TableStyle(
             [
                 ("SPAN", (0, 0), (1, 0)),
                 ("SPAN", (0, 1), (1, 1)),
+                ("SPAN", (0, 2), (1, 2)),
+                ("SPAN", (0, 3), (1, 3)),
                 ("BACKGROUND", (0, 0), (1, 0), CIVIDIS_DARK),
                 ("BOX", (0, 0), (-1, -1), 0.9, CIVIDIS_DARK),
                 ("BACKGROUND", (0, 1), (1, 1), CIVIDIS_TINT),
-                ("BACKGROUND", (0, 2), (0, 2), CIVIDIS_TINT),
+                ("BACKGROUND", (0, 2), (1, 2), CIVIDIS_TINT),
                 ("VALIGN", (0, 1), (-1, -1), "TOP"),
-                ("ALIGN", (1, 2), (1, 2), "CENTER"),
+                ("ALIGN", (0, 3), (1, 3), "CENTER"),
                 ("LEFTPADDING", (0, 0), (-1, -1), 6),
                 ("RIGHTPADDING", (0, 0), (-1, -1), 6),
                 ("TOPPADDING", (0, 0), (-1, 0), 4),
