@@ -601,9 +601,10 @@ def _sample_object(
             obj.plate, obj.mass, density * cd_factor, wind_speed, toward, velocity0, settings,
             *attitude,
         )  # fmt: skip
-        return _rest_after_landing(
+        rest = _rest_after_landing(
             solution, e_n, e_t, friction, rolling, tilt, tilt_azimuth, obj, settings
         )
+        return (*rest, 0.0)  # solved directly: no fall-table error
     return _rest_positions(
         np.full(n, obj.mass), drag_area, density, wind_speed, toward, velocity0, e_n, e_t,
         friction, rolling, tilt, tilt_azimuth, obj, settings,
