@@ -255,6 +255,22 @@ def test_zone_of_drops_counts_the_fall_table_error_in_its_standard_error() -> No
     assert zone.standard_error - sampled < TABLE_POSITION_BOUND + 1e-3
 
 
+def test_zone_of_a_sheet_beside_drops_mixes_the_plate_model_and_the_fall_table() -> None:
+    # A sheet flies by the plate model (solved directly), a brick reads the fall table: both
+    # sampling paths feed one zone.
+    from dropcalc.analysis.zone import zone_object
+
+    library = load_library(None)
+    sheet = zone_object(library.get("plywood-12mm-half-sheet"))
+    assert sheet.plate is not None
+    brick = zone_object(library.get("brick-uk-standard"))
+    result = compute_zone([sheet, brick], ZoneSettings(height=12.0, wind=wind_spec(6.0)))
+    for zone in result.objects:
+        assert zone.samples >= 1000
+        assert math.isfinite(zone.radius)
+        assert zone.standard_error > 0
+
+
 def test_quantile_with_error_counts_carried_away_samples_as_infinitely_far() -> None:
     # 0..98 then one NaN: the 0.99-quantile with the NaN counted as infinity is the 99th
     # smallest value, 98 (rank n p = 99, by counting).
