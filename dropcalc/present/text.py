@@ -319,7 +319,13 @@ def render_object(obj: object, system: str = "si") -> str:
         wrapped = textwrap.wrap(str(text), 78) or [""]
         lines.append(f"  {label:<13}{wrapped[0]}")
         lines.extend(f"  {'':<13}{w}" for w in wrapped[1:])
-    if o.glides:
+    from dropcalc.physics.plate import plate_dimensions
+
+    if plate_dimensions(o.shape, o.dimensions) is not None:
+        lines.extend(textwrap.wrap(
+            "Flight: a sheet, flown by the plate model in fall, batch and zone (it glides, "
+            "tumbles and can rise in wind).", 90))  # fmt: skip
+    elif o.glides:
         from dropcalc.physics.shapes import GLIDE_WARNING
 
         lines.extend(textwrap.wrap("WARNING: " + GLIDE_WARNING, 90))
