@@ -17,6 +17,8 @@ import io
 import json
 import math
 import re
+import subprocess
+import sys
 import tomllib
 from pathlib import Path
 from typing import Any
@@ -241,8 +243,11 @@ def test_compute_answers_with_the_loader_and_the_job(client: TestClient) -> None
     assert all(isinstance(c["item"], str) for c in answer["controls"])
     assert all(c["controls"] and isinstance(c["controls"], list) for c in answer["controls"])
     assert answer["objects"][0]["label"] == HOSTILE  # data, shown with textContent
+    assert "figures" not in answer  # they follow in their own request
+    drawn = client.post("/api/figures", json={"request_id": 7, "form": form}).json()
+    assert drawn["request_id"] == 7
     for name in ("side_view", "energy_height"):
-        uri = answer["figures"][name]
+        uri = drawn["figures"][name]
         assert uri.startswith("data:image/svg+xml;base64,")
         import base64
 
@@ -532,3 +537,69 @@ def test_nothing_below_the_page_imports_it() -> None:
         and re.search(r"^\s*(from|import) dropcalc\.web", path.read_text(), re.M)
     ]
     assert offenders == []
+
+
+# --------------------------------------------------------------------------------------------
+# Superseded requests and the command
+
+
+def test_a_superseded_compute_stops(tmp_path: Path) -> None:
+    import threading
+
+    cancelled = threading.Event()
+    cancelled.set()  # the page has already moved on
+    cache = service.JobCache()
+    with pytest.raises(service.Superseded):
+        service.compute(small_form(), cache, cancelled)
+    # Nothing half-done is cached: the same input later runs in full.
+    answer = service.compute(small_form(), cache)
+    assert answer["cached"] is False
+    assert answer["areas"][0]["finite"]
+
+
+def _serve(*args: str) -> subprocess.Popen:
+    return subprocess.Popen(
+        [sys.executable, "-m", "dropcalc", "serve", "--no-browser", *args],
+        stdout=subprocess.PIPE,
+        stderr=subprocess.PIPE,
+        text=True,
+    )
+
+
+def test_serve_prints_its_address_and_warns_beyond_this_computer() -> None:
+    process = _serve("--host", "0.0.0.0")  # noqa: S104 (the point of the test)
+    try:
+        assert process.stdout is not None
+        assert process.stderr is not None
+        line = process.stdout.readline()
+        assert re.fullmatch(r"dropcalc page: http://127\.0\.0\.1:\d+/ +\(Ctrl\+C to stop\)\n", line)
+        warning = process.stderr.readline()
+        assert warning.startswith("dropcalc serve: warning: listening on 0.0.0.0")
+        assert "no login" in warning
+    finally:
+        process.terminate()
+        process.communicate(timeout=10)
+
+
+def test_serve_refuses_a_port_in_use_in_one_line() -> None:
+    import socket
+
+    with socket.socket() as taken:
+        taken.bind(("127.0.0.1", 0))
+        taken.listen(1)
+        port = taken.getsockname()[1]
+        process = _serve("--port", str(port))
+        out, err = process.communicate(timeout=60)
+    assert process.returncode == 2
+    assert err.count("\n") == 1
+    assert f"cannot listen on 127.0.0.1:{port}" in err
+    assert "Traceback" not in err
+
+
+def test_serve_port_range() -> None:
+    from typer.testing import CliRunner
+
+    from dropcalc.cli import app
+
+    result = CliRunner().invoke(app, ["serve", "--no-browser", "--port", "70000"])
+    assert result.exit_code == 2, result.output

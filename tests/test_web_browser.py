@@ -244,8 +244,10 @@ def test_a_job_built_by_hand(server: str, browser: Any, downloads: Path, tmp_pat
     assert driver.find_elements(By.CSS_SELECTOR, "#plan path.zone")  # drawn over the plan
     caution = driver.find_element(By.ID, "caution-short").text
     assert caution.startswith("Estimates from a simplified model")
-    assert (
-        driver.find_element(By.ID, "figure-side").get_attribute("src").startswith("data:image/svg")
+    WebDriverWait(driver, ANSWER_TIMEOUT).until(
+        lambda d: (d.find_element(By.ID, "figure-side").get_attribute("src") or "").startswith(
+            "data:image/svg"
+        )
     )
     shot(driver, "03-answer")
 

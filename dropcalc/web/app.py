@@ -139,14 +139,18 @@ async def _json_body(request: Request) -> Any:
         raise DropcalcError("the request body is not valid JSON") from None
 
 
-def create_app(*, local_only: bool = True, cache_size: int = 8, warm: bool = True) -> Starlette:
+def create_app(
+    *, local_only: bool = True, host: str = "", cache_size: int = 8, warm: bool = True
+) -> Starlette:
     """The page as an ASGI application.
 
     Parameters
     ----------
     local_only : bool
         Answer only requests addressed to the local machine by name (127.0.0.1, localhost,
-        ::1); False when the server is bound beyond it (``--host``).
+        ::1, and ``host``); False when the server is bound beyond it (``--host``).
+    host : str
+        The address the server listens on, when it is another loopback address.
     cache_size : int
         How many finished jobs to keep for downloads and repeated inputs.
     warm : bool
@@ -234,6 +238,24 @@ def create_app(*, local_only: bool = True, cache_size: int = 8, warm: bool = Tru
                 watcher.cancel()
         return JSONResponse({"request_id": request_id, **answer})
 
+    async def figures(request: Request) -> Response:
+        try:
+            body = await _json_body(request)
+        except DropcalcError as exc:
+            return _errors(400, str(exc))
+        if not isinstance(body, dict) or not isinstance(body.get("request_id"), int):
+            return _errors(400, "expected {request_id, form}")
+        async with compute_lock:
+            if await request.is_disconnected():
+                return Response(status_code=204)
+            try:
+                drawn = await run_in_threadpool(service.figures, body.get("form"), cache)
+            except service.FormError as exc:
+                return JSONResponse({"errors": service.form_errors_json(exc.errors)}, 422)
+            except DropcalcError as exc:
+                return _errors(422, str(exc))
+        return JSONResponse({"request_id": body["request_id"], "figures": drawn})
+
     async def _files(request: Request, names: tuple[str, ...]) -> dict[str, tuple[bytes, str]]:
         files: dict[str, tuple[bytes, str]] = {}
         # Closing the form closes (and deletes) the spooled upload files.
@@ -311,6 +333,7 @@ def create_app(*, local_only: bool = True, cache_size: int = 8, warm: bool = Tru
         Route("/api/library", library),
         Route("/api/demo", demo),
         Route("/api/compute", compute, methods=["POST"]),
+        Route("/api/figures", figures, methods=["POST"]),
         Route("/api/objects", objects_upload, methods=["POST"]),
         Route("/api/scenario", scenario_upload, methods=["POST"]),
         Route("/download/{kind}", download, methods=["POST"]),
@@ -321,7 +344,8 @@ def create_app(*, local_only: bool = True, cache_size: int = 8, warm: bool = Tru
         Middleware(BodyLimit, limit=MAX_BODY_BYTES),
     ]
     if local_only:
-        middleware.append(Middleware(TrustedHostMiddleware, allowed_hosts=list(LOCAL_HOSTS)))
+        hosts = [*LOCAL_HOSTS, *([host] if host else [])]
+        middleware.append(Middleware(TrustedHostMiddleware, allowed_hosts=hosts))
     return Starlette(
         routes=routes, middleware=middleware, exception_handlers={Exception: server_error}
     )

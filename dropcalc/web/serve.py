@@ -87,7 +87,10 @@ def serve(host: str = DEFAULT_HOST, port: int = 0, open_browser: bool = True) ->
             file=sys.stderr,
         )
     config = uvicorn.Config(
-        create_app(local_only=local), log_level="warning", access_log=False, lifespan="off"
+        create_app(local_only=local, host=host.strip("[]")),
+        log_level="warning",
+        access_log=False,
+        lifespan="off",
     )
     server = uvicorn.Server(config)
     print(f"dropcalc page: {url}  (Ctrl+C to stop)", flush=True)

@@ -452,13 +452,13 @@ def answer_json(job: Any) -> dict[str, Any]:
     """What the page shows for a job.
 
     Per work area the distance to keep clear, what sets it and the zone on the plan; the object
-    table, the controls, the warnings, the figures (SVG from the report's figure code) and the
-    caution.
+    table, the controls, the warnings and the caution. The figures come apart
+    (:func:`figures_json`): drawing them takes longer than the numbers, which the page shows
+    first.
     """
     import math
 
     from dropcalc.physics.release import describe
-    from dropcalc.report.build import draw_figures
     from dropcalc.texts import CAUTION_SHORT, NO_FINITE_DISTANCE, keep_clear
 
     scenario = job.scenario
@@ -516,9 +516,6 @@ def answer_json(job: Any) -> dict[str, Any]:
                 "error": str(row.get("error") or ""),
             }
         )
-    with tempfile.TemporaryDirectory(prefix="dropcalc-page-") as folder:
-        paths = draw_figures(job, Path(folder), "svg")
-        figures = {name: _svg_data(path) for name, path in paths.items()}
     return {
         "areas": areas,
         "objects": objects,
@@ -527,9 +524,25 @@ def answer_json(job: Any) -> dict[str, Any]:
             for item, controls in job.controls
         ],
         "warnings": list(job.warnings),
-        "figures": figures,
         "caution": CAUTION_SHORT,
     }
+
+
+def figures_json(job: Any) -> dict[str, str]:
+    """The side view and the energy plot as SVG ``data:`` URIs, from the PDF's figure code."""
+    from dropcalc.report.build import draw_figures
+
+    with tempfile.TemporaryDirectory(prefix="dropcalc-page-") as folder:
+        paths = draw_figures(job, Path(folder), "svg")
+        return {name: _svg_data(path) for name, path in paths.items()}
+
+
+def figures(form_data: Any, cache: JobCache | None = None) -> dict[str, str]:
+    """The figures of a form's job (run it, or take it from the cache, first)."""
+    entry, _cached = run_form(form_data, cache)
+    if "figures" not in entry:
+        entry["figures"] = figures_json(entry["job"])
+    return entry["figures"]
 
 
 def _finite(value: Any) -> float | None:

@@ -460,7 +460,7 @@ function stopDrawing(keep) {
     changed();
   }
   drawing = null; view = null;
-  $("#draw-target").textContent = "Drawing: nothing";
+  $("#draw-target").textContent = "";
   $("#draw-finish").disabled = true;
   $("#draw-cancel").disabled = true;
   $("#plan").classList.remove("drawing");
@@ -589,6 +589,7 @@ async function compute() {
     (answer.cached ? " (from the cache)" : ""));
   $("#answer").dataset.shown = String(id);
   renderPlan();
+  drawFigures(id);
 }
 
 async function readJson(response) {
@@ -665,9 +666,25 @@ function showAnswer(answer) {
     impacts.append(tr);
   }
   $("#impacts-box").hidden = !answer.objects.length;
+  // The figures take longer than the numbers: the old ones go at once, the new ones follow.
+  for (const id of ["#figure-side", "#figure-energy"]) $(id).removeAttribute("src");
+  $("#figures-box").hidden = false;
+  $("#figures-box").dataset.state = "drawing";
+}
+
+async function drawFigures(id) {
+  let response, answer;
+  try {
+    response = await fetch("/api/figures", {
+      method: "POST", headers: { "Content-Type": "application/json" },
+      body: JSON.stringify({ request_id: id, form }), signal: controller.signal,
+    });
+    answer = await readJson(response);
+  } catch (error) { return; }
+  if (id !== latest || !response.ok || answer.request_id !== id) return;
   $("#figure-side").src = answer.figures.side_view;
   $("#figure-energy").src = answer.figures.energy_height;
-  $("#figures-box").hidden = false;
+  $("#figures-box").dataset.state = "drawn";
 }
 
 // ------------------------------------------------------------------------------------------
