@@ -8,6 +8,7 @@ field, the value given and what is allowed, e.g.
 
 from __future__ import annotations
 
+import stat
 from pathlib import Path
 
 
@@ -92,7 +93,7 @@ def shorten(text: object, limit: int = 80) -> str:
     return shown if len(shown) <= limit else shown[: limit - 1] + "…"
 
 
-def require_file(path: object, what: str) -> Path:
+def require_file(path: object, what: str, max_bytes: int | None = None) -> Path:
     """Return ``path`` as a :class:`~pathlib.Path` if it names a readable regular file.
 
     Parameters
@@ -101,22 +102,56 @@ def require_file(path: object, what: str) -> Path:
         The file the user named.
     what : str
         What the file is for, used in the message ("object list", "site file").
+    max_bytes : int or None
+        Largest size accepted [bytes] (``dropcalc.model.limits``); None for no limit.
 
     Raises
     ------
     InputError
-        If the file does not exist, is a folder, or its name cannot be looked up at all (a name
-        too long for the file system, a NUL byte); the message names the file and the reason.
+        If the file does not exist, is a folder, is not a regular file (``/dev/zero``, a pipe:
+        reading them never ends or blocks), is larger than ``max_bytes``, or its name cannot
+        be looked up at all (a name too long for the file system, a NUL byte); the message
+        names the file and the reason.
     """
     shown = shorten(path, 120)
     try:
         file = Path(path)  # type: ignore[arg-type]
-        if file.is_file():
-            return file
-        reason = "is a folder, not a file" if file.is_dir() else "no such file"
+        mode = file.stat().st_mode
+        if stat.S_ISREG(mode):
+            size = file.stat().st_size
+            if max_bytes is None or size <= max_bytes:
+                return file
+            reason = f"{size:,} bytes; at most {max_bytes:,} bytes are read (docs/limits.md)"
+        elif stat.S_ISDIR(mode):
+            reason = "is a folder, not a file"
+        else:
+            reason = "not a regular file (a device, pipe or socket); name a saved file"
+    except FileNotFoundError:
+        reason = "no such file"
     except (OSError, ValueError) as exc:  # ENAMETOOLONG, ELOOP, EACCES on a parent; NUL byte
         reason = getattr(exc, "strerror", None) or str(exc)
     raise InputError(f"{what} {shown}: {reason}")
+
+
+def read_file(path: object, what: str, max_bytes: int) -> bytes:
+    """The bytes of a regular file of at most ``max_bytes``, read with that cap.
+
+    Raises
+    ------
+    InputError
+        As :func:`require_file`, or when the file cannot be read or grew past the cap.
+    """
+    file = require_file(path, what, max_bytes)
+    try:
+        with file.open("rb") as handle:
+            data = handle.read(max_bytes + 1)
+    except OSError as exc:
+        raise InputError(f"{what} {shorten(path, 120)}: cannot read ({exc.strerror})") from None
+    if len(data) > max_bytes:
+        raise InputError(
+            f"{what} {shorten(path, 120)}: more than {max_bytes:,} bytes (docs/limits.md)"
+        )
+    return data
 
 
 def require_suffix(path: object, allowed: tuple[str, ...], field: str) -> str:

@@ -7,15 +7,23 @@ test pins the refusal (one line naming the key, exit code 2) or the answer.
 from __future__ import annotations
 
 import json
+import os
 from pathlib import Path
 from typing import Any
 
+import numpy as np
 import pytest
 from typer.testing import CliRunner
 
 from dropcalc.cli import app
 from dropcalc.errors import InputError
 from dropcalc.io.scenario import load_scenario
+from dropcalc.model.limits import (
+    EDGE_RESOLUTION,
+    MAX_LIST_ROWS,
+    MAX_OBJECTS,
+    MAX_TEXT_FILE_BYTES,
+)
 from dropcalc.units import parse_quantity
 
 runner = CliRunner()
@@ -125,3 +133,215 @@ def test_a_tower_in_a_scenario_names_the_key_and_line(tmp_path: Path) -> None:
     )
     with pytest.raises(InputError, match=r"scenario.toml: line 14: object\[1\]\.mass: "):
         load_scenario(write_scenario(tmp_path, text))
+
+
+# --------------------------------------------------------------------------------------------
+# Declared limits, checked before any work
+
+
+def _fifo(folder: Path) -> Path:
+    fifo = folder / "pipe.toml"
+    os.mkfifo(fifo)
+    return fifo
+
+
+@pytest.mark.parametrize(
+    ("args", "words"),
+    [
+        (("report", "/dev/zero"), ("scenario /dev/zero", "not a regular file")),
+        (
+            ("zone", "--site", "/dev/zero", "--object", "claw-hammer-16oz"),
+            ("site file /dev/zero", "not a regular file"),
+        ),
+        (
+            ("zone", "--items", "/dev/zero", "--height", "5"),
+            ("object list /dev/zero", "not a regular file"),
+        ),
+        (("objects", "--library", "/dev/zero"), ("object file /dev/zero", "not a regular file")),
+    ],
+)
+def test_special_files_are_refused_as_not_regular(args: tuple[str, ...], words: Any) -> None:
+    one_error_line(invoke(*args), *words)
+
+
+def test_a_fifo_is_not_a_regular_file_rather_than_missing(tmp_path: Path) -> None:
+    one_error_line(invoke("report", str(_fifo(tmp_path))), "not a regular file")
+
+
+def test_batch_policy_from_dev_zero_is_refused(tmp_path: Path) -> None:
+    items = tmp_path / "items.csv"
+    items.write_text("id\nclaw-hammer-16oz\n", encoding="utf-8")
+    result = invoke("batch", str(items), "--height", "5", "--policy", "/dev/zero")
+    one_error_line(result, "policy file /dev/zero", "not a regular file")
+
+
+def test_a_rules_file_on_dev_zero_names_the_key(tmp_path: Path) -> None:
+    text = SCENARIO.replace("precision = 0.2", 'precision = 0.2\nrules_file = "/dev/zero"')
+    with pytest.raises(InputError, match=r"line 6: policy.rules_file: .*not a regular file"):
+        load_scenario(write_scenario(tmp_path, text))
+
+
+def test_a_file_over_the_size_limit_is_refused_before_reading(tmp_path: Path) -> None:
+    big = tmp_path / "big.toml"
+    with big.open("wb") as handle:  # sparse: no disk used
+        handle.truncate(MAX_TEXT_FILE_BYTES + 1)
+    one_error_line(invoke("report", str(big)), "big.toml", f"at most {MAX_TEXT_FILE_BYTES:,}")
+
+
+def _workbook(path: Path, rows: list[list[Any]]) -> Path:
+    from openpyxl import Workbook
+
+    book = Workbook()
+    sheet = book.active
+    for row in rows:
+        sheet.append(row)
+    book.save(path)
+    return path
+
+
+def _declare_dimension(path: Path, ref: str) -> None:
+    """Rewrite the first sheet's <dimension ref=...> as a hostile file would."""
+    import re
+    import zipfile
+
+    with zipfile.ZipFile(path) as archive:
+        members = {info.filename: archive.read(info) for info in archive.infolist()}
+    name = "xl/worksheets/sheet1.xml"
+    members[name] = re.sub(rb'<dimension ref="[^"]*"', f'<dimension ref="{ref}"'.encode(),
+                           members[name])  # fmt: skip
+    with zipfile.ZipFile(path, "w", zipfile.ZIP_DEFLATED) as archive:
+        for member, data in members.items():
+            archive.writestr(member, data)
+
+
+def test_a_sheet_declaring_the_whole_grid_is_refused(tmp_path: Path) -> None:
+    book = _workbook(tmp_path / "items.xlsx", [["id"], ["claw-hammer-16oz"]])
+    _declare_dimension(book, "A1:XFD1048576")
+    one_error_line(invoke("zone", "--items", str(book), "--height", "5"), "A1:XFD1048576")
+    one_error_line(invoke("batch", str(book), "--height", "5"), "A1:XFD1048576")
+
+
+def test_a_list_over_the_row_limit_is_refused(tmp_path: Path) -> None:
+    items = tmp_path / "items.csv"
+    items.write_text("id\n" + "claw-hammer-16oz\n" * (MAX_LIST_ROWS + 1), encoding="utf-8")
+    one_error_line(invoke("batch", str(items), "--height", "5"), f"{MAX_LIST_ROWS:,}")
+
+
+@pytest.mark.parametrize("header", ["mass,mass", "Mass,mass"])
+def test_duplicate_headers_are_refused_in_csv(tmp_path: Path, header: str) -> None:
+    items = tmp_path / "items.csv"
+    items.write_text(f"label,{header},drag_area\nx,1 kg,50 kg,0.01\n", encoding="utf-8")
+    one_error_line(invoke("batch", str(items), "--height", "5"), "'mass' appears twice")
+    one_error_line(invoke("zone", "--items", str(items), "--height", "5"), "appears twice")
+
+
+def test_duplicate_headers_are_refused_in_xlsx(tmp_path: Path) -> None:
+    book = _workbook(
+        tmp_path / "items.xlsx", [["label", "mass", "mass", "drag_area"], ["x", "1", "50", "0.01"]]
+    )
+    one_error_line(invoke("batch", str(book), "--height", "5"), "'mass' appears twice")
+    one_error_line(invoke("zone", "--items", str(book), "--height", "5"), "appears twice")
+
+
+def test_duplicate_headers_are_refused_in_a_library_csv(tmp_path: Path) -> None:
+    from dropcalc.io.library import load_library
+
+    library = tmp_path / "own.csv"
+    library.write_text("id,name,name\nx,a,b\n", encoding="utf-8")
+    with pytest.raises(InputError, match=r'row 1: column "name" appears twice'):
+        load_library(library)
+
+
+def test_too_many_object_tables_are_refused_by_count(tmp_path: Path) -> None:
+    objects = '[[object]]\nid = "combination-spanner-19mm"\n' * MAX_OBJECTS
+    with pytest.raises(InputError, match=rf"object: {MAX_OBJECTS + 1:,} objects; at most"):
+        load_scenario(write_scenario(tmp_path, SCENARIO + objects))
+
+
+def test_a_long_title_and_a_long_name_are_refused_with_their_key(tmp_path: Path) -> None:
+    title = SCENARIO.replace("Test job", "word " * 20_000)
+    with pytest.raises(InputError, match=r"line 2: job.title: 100,000 characters; at most 200"):
+        load_scenario(write_scenario(tmp_path, title))
+    name = SCENARIO.replace('name = "Roof"', f'name = "{"x" * 5000}"')
+    with pytest.raises(InputError, match=r"line 8: work_area\[1\].name: 5,000 characters"):
+        load_scenario(write_scenario(tmp_path, name))
+
+
+def test_coordinates_beyond_the_site_are_refused(tmp_path: Path) -> None:
+    text = SCENARIO.replace("[[0, 0], [10, 0]]", "[[0, 0], [1e300, 0]]")
+    with pytest.raises(InputError, match=r"line 10: work_area\[1\].edge\[1\].points.*10,000 m"):
+        load_scenario(write_scenario(tmp_path, text))
+
+
+@pytest.mark.parametrize(
+    ("old", "new", "words"),
+    [
+        ("  [[work_area.edge]]\n  points = [[0, 0], [10, 0]]\n  height = \"10 m\"\n",
+         "edge = [5]\n", r"work_area\[1\].edge: expected \[\[work_area.edge\]\] tables"),
+        ('title = "Test job"', "title = " + "[" * 5000, "nested too deep"),
+    ],
+)  # fmt: skip
+def test_malformed_structure_is_a_message_not_a_traceback(
+    tmp_path: Path, old: str, new: str, words: str
+) -> None:
+    assert old in SCENARIO
+    with pytest.raises(InputError, match=words):
+        load_scenario(write_scenario(tmp_path, SCENARIO.replace(old, new)))
+
+
+# --------------------------------------------------------------------------------------------
+# Many-point edges
+
+
+def test_a_many_point_circle_is_merged_within_the_resolution() -> None:
+    from dropcalc.analysis.plan import WorkEdge
+
+    n, radius = 10_000, 20.0
+    angles = np.linspace(0.0, 2.0 * np.pi, n, endpoint=False)
+    points = [(radius * np.cos(a), radius * np.sin(a)) for a in angles]
+    edge = WorkEdge("tank rim", points, 15.0)
+    # A chord of a circle departs from it by its sagitta R (1 - cos(theta/2)); with at most
+    # EDGE_RESOLUTION of departure a 20 m circle needs at least pi / acos(1 - 0.25/20) = 28.
+    assert 28 <= len(edge.points) - 1 <= 64
+    assert 0.0 < edge.merged_by <= EDGE_RESOLUTION
+    # Every given point stays within the resolution of the merged edge (shapely's own measure).
+    from shapely.geometry import LineString, MultiPoint
+
+    assert LineString(edge.points).distance(MultiPoint(points)) < 1e-9
+    assert LineString(edge.points).hausdorff_distance(LineString(points)) <= EDGE_RESOLUTION
+
+
+def test_a_few_point_edge_is_kept_as_given() -> None:
+    from dropcalc.analysis.plan import WorkEdge
+
+    points = ((0.0, 0.0), (10.0, 0.0), (10.0, 10.0), (20.0, 10.0))
+    edge = WorkEdge("parapet", points, 8.0)
+    assert edge.points == points
+    assert edge.merged_by == 0.0
+
+
+# --------------------------------------------------------------------------------------------
+# Text is text
+
+
+MARKUP = ["north $\\frac{1}$ eave", "cost $x^$ tile", "$$", "a $\\undefined$ b"]
+
+
+@pytest.mark.parametrize("name", MARKUP)
+def test_dollar_names_are_drawn_literally_in_every_figure(tmp_path: Path, name: str) -> None:
+    from shapely.geometry import Point
+
+    from dropcalc.analysis.plan import Site, WorkEdge, exclusion_area
+    from dropcalc.present.plan_plot import plot_plan
+    from dropcalc.report.figures import EnergyCurve, SideViewCase, energy_height, side_view
+
+    site = Site(outline=None, edges=(WorkEdge(name, ((0.0, 0.0), (3.0, 0.0)), 10.0),))
+    area = exclusion_area(site, [(0, 0, Point(0, 0).buffer(5.0))], margin=1.0)
+    plot_plan(area, site, None, tmp_path / "plan.png", title=name, wind_label=name)
+    case = SideViewCase(name, 10.0, (0.0, 0.0, 0.0), 0.01)
+    side_view(tmp_path / "side.svg", [case], 10.0, title=name)
+    energy_height(tmp_path / "energy.png", [EnergyCurve(name, 1.0, 0.01, 9.81, None)],
+                  [(name, 49.0)], 10.0, title=name)  # fmt: skip
+    # The text went to the SVG as typed (matplotlib writes it as glyph paths and keeps it in
+    # no element, so look for the absence of failure and a written file of each kind).
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["energy.png", "plan.png", "side.svg"]

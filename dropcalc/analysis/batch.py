@@ -22,6 +22,14 @@ import numpy as np
 
 from dropcalc.analysis.fall import CARRIED_AWAY_DISTANCE, wind_field
 from dropcalc.errors import DropcalcError, InputError, require_file, shorten
+from dropcalc.model.limits import (
+    MAX_CELL_CHARACTERS,
+    MAX_LIST_COLUMNS,
+    MAX_LIST_FILE_BYTES,
+    MAX_LIST_ROWS,
+    MAX_NAME_CHARACTERS,
+    MAX_XLSX_UNCOMPRESSED_BYTES,
+)
 from dropcalc.model.policy import DEFAULT_RULES, ControlRule, suggest_control
 from dropcalc.model.reference_levels import DEFAULT_LEVEL_KEYS, REFERENCE_LEVELS, ReferenceLevel
 from dropcalc.physics.atmosphere import AirState, air_state
@@ -143,6 +151,70 @@ def _column_name(name: object) -> str:
     return re.sub(r"[\s\-]+", "_", str(name).strip().lower()).lstrip("\ufeff")
 
 
+def check_columns(path: Path, raw_names: Sequence[object]) -> list[str]:
+    """The header's column names, normalised; refuse too many columns or a name given twice.
+
+    A duplicate header ("mass,mass", or "Mass" and "mass") is refused: readers differ in which
+    of the two they keep. pandas renames a repeated CSV or XLSX header "mass" to "mass.1",
+    which is undone here so the repeat is seen.
+    """
+    if len(raw_names) > MAX_LIST_COLUMNS:
+        raise InputError(
+            f"{path.name}: row 1: {len(raw_names):,} columns; at most {MAX_LIST_COLUMNS} are read"
+        )
+    names = [_column_name(c) if c is not None else "" for c in raw_names]
+    seen: set[str] = set()
+    for name in names:
+        base = re.sub(r"\.\d+$", "", name)
+        key = base if base in names and base != name else name
+        if key and key in seen:
+            raise InputError(
+                f"{path.name}: row 1: column {shorten(key, 40)!r} appears twice; keep one"
+            )
+        seen.add(key)
+    return names
+
+
+def check_xlsx(path: Path) -> None:
+    """Refuse a workbook too large to load, from what its archive declares, before loading it.
+
+    Reads the members' uncompressed sizes and each sheet's ``<dimension ref="A1:D20"/>`` (the
+    range the sheet says it uses): a 351 KB file may expand to a million rows, and a sheet
+    declaring ``A1:XFD1048576`` makes a reader pad every row to 16,384 cells.
+    """
+    import zipfile
+
+    try:
+        with zipfile.ZipFile(path) as archive:
+            members = archive.infolist()
+            total = sum(member.file_size for member in members)
+            if total > MAX_XLSX_UNCOMPRESSED_BYTES:
+                raise InputError(
+                    f"{path.name}: the workbook unpacks to {total:,} bytes; at most "
+                    f"{MAX_XLSX_UNCOMPRESSED_BYTES:,} are read (docs/limits.md)"
+                )
+            for member in members:
+                if not re.fullmatch(r"xl/worksheets/[^/]+\.xml", member.filename):
+                    continue
+                with archive.open(member) as handle:
+                    start = handle.read(4096).decode("utf-8", "replace")
+                ref = re.search(r"<(?:\w+:)?dimension\s+ref=\"[A-Z]+\d+:([A-Z]+)(\d+)\"", start)
+                if ref is None:
+                    continue
+                columns = 0
+                for letter in ref[1]:
+                    columns = columns * 26 + ord(letter) - ord("A") + 1
+                rows = int(ref[2])
+                if rows > MAX_LIST_ROWS + 1 or columns > MAX_LIST_COLUMNS:
+                    raise InputError(
+                        f"{path.name}: a sheet declares {rows:,} rows and {columns:,} columns "
+                        f"(A1:{ref[1]}{ref[2]}); at most {MAX_LIST_ROWS:,} rows and "
+                        f"{MAX_LIST_COLUMNS} columns are read (docs/limits.md)"
+                    )
+    except zipfile.BadZipFile:
+        return  # not an archive: the workbook reader says so in its own words
+
+
 def read_table(path: Path) -> pd.DataFrame:
     """Read a CSV or XLSX item list as text cells (no type guessing).
 
@@ -157,10 +229,11 @@ def read_table(path: Path) -> pd.DataFrame:
     """
     import pandas as pd
 
-    path = require_file(path, "object list")
+    path = require_file(path, "object list", MAX_LIST_FILE_BYTES)
     suffix = path.suffix.lower()
     try:
         if suffix in (".xlsx", ".xlsm"):
+            check_xlsx(path)
             frame = pd.read_excel(path, dtype=str, keep_default_na=False, engine="openpyxl")
         elif suffix in (".csv", ".txt", ".tsv", ""):
             raw = path.read_bytes()
@@ -185,9 +258,13 @@ def read_table(path: Path) -> pd.DataFrame:
         raise
     except Exception as exc:  # pandas raises many kinds for malformed tables
         raise InputError(f"{path}: cannot read the table ({exc})") from None
-    frame.columns = [_column_name(c) for c in frame.columns]
+    frame.columns = check_columns(path, list(frame.columns))
     if frame.empty or not len(frame.columns):
         raise InputError(f"{path}: the table has no rows")
+    if len(frame) > MAX_LIST_ROWS:
+        raise InputError(
+            f"{path.name}: {len(frame):,} rows; at most {MAX_LIST_ROWS:,} are read (docs/limits.md)"
+        )
     # Extra columns (notes, prices) are carried by many real lists: ignore them, but say so.
     frame.attrs["ignored_columns"] = [c for c in frame.columns if c not in KNOWN_COLUMNS]
     if "id" not in frame.columns and "mass" not in frame.columns:
@@ -215,8 +292,18 @@ def _resolve_row(
             raise InputError(f"{name} must be > 0; got {text!r}")
         return value
 
+    for column, value in record.items():  # extra columns (notes) are not read: any length
+        if column in KNOWN_COLUMNS and isinstance(value, str) and len(value) > MAX_CELL_CHARACTERS:
+            raise InputError(
+                f"{shorten(column, 40)}: the cell has {len(value):,} characters; "
+                f"at most {MAX_CELL_CHARACTERS:,} are read"
+            )
     object_id = _cell(record, "id")
     label = _cell(record, "label")
+    if len(label) > MAX_NAME_CHARACTERS:
+        raise InputError(
+            f"label: {len(label):,} characters; at most {MAX_NAME_CHARACTERS} are shown"
+        )
     count_text = _cell(record, "quantity") or "1"
     try:
         count_value = float(count_text.replace(",", "."))

@@ -24,12 +24,15 @@ from dropcalc.analysis.batch import (
     KNOWN_COLUMNS,
     BatchSettings,
     _column_name,
+    check_columns,
+    check_xlsx,
     error_rows,
     neutralise,
     parse_items,
     solve_items,
 )
 from dropcalc.errors import InputError, require_file, require_suffix
+from dropcalc.model.limits import MAX_LIST_FILE_BYTES, MAX_LIST_ROWS
 
 #: Rows read, solved and sorted at a time.
 CHUNK_ROWS = 10_000
@@ -56,8 +59,15 @@ def _count_lines(path: Path) -> int:
         return sum(block.count(b"\n") for block in iter(lambda: handle.read(1 << 20), b""))
 
 
-def _check_columns(path: Path, columns: list[str]) -> list[str]:
+def _too_many_rows(path: Path, rows: int) -> InputError:
+    return InputError(
+        f"{path.name}: {rows:,} rows or more; at most {MAX_LIST_ROWS:,} are read (docs/limits.md)"
+    )
+
+
+def _check_columns(path: Path, raw_columns: list[Any]) -> list[str]:
     """Return the ignored columns, or raise when the list cannot be used at all."""
+    columns = check_columns(path, raw_columns)
     if not columns:
         raise InputError(f"{path}: the table has no rows")
     if "id" not in columns and "mass" not in columns:
@@ -75,13 +85,16 @@ def iter_chunks(path: Path) -> Iterator[tuple[int, Any]]:
     """
     import pandas as pd
 
-    path = require_file(path, "object list")
+    path = require_file(path, "object list", MAX_LIST_FILE_BYTES)
     suffix = path.suffix.lower()
     if suffix in (".xlsx", ".xlsm"):
         yield from _xlsx_chunks(path)
         return
     if suffix not in (".csv", ".txt", ".tsv", ""):
         raise InputError(f"{path}: expected a .csv or .xlsx file; got {suffix or 'no suffix'}")
+    lines = _count_lines(path)
+    if lines - 1 > MAX_LIST_ROWS:  # the header's line break, then one per row
+        raise _too_many_rows(path, lines - 1)
     encoding = _encoding(path)
     with path.open(encoding=encoding, newline="") as handle:
         header = handle.readline()
@@ -96,10 +109,14 @@ def iter_chunks(path: Path) -> Iterator[tuple[int, Any]]:
             first = 2
             seen_rows = False
             for chunk in reader:
+                if first == 2:
+                    ignored = _check_columns(path, list(chunk.columns))
                 chunk.columns = [_column_name(c) for c in chunk.columns]
                 if first == 2:
-                    chunk.attrs["ignored_columns"] = _check_columns(path, list(chunk.columns))
+                    chunk.attrs["ignored_columns"] = ignored
                 seen_rows = seen_rows or not chunk.empty
+                if first + len(chunk) - 2 > MAX_LIST_ROWS:  # rows with line breaks in cells
+                    raise _too_many_rows(path, first + len(chunk) - 2)
                 yield first, chunk
                 first += len(chunk)
         if not seen_rows:
@@ -116,6 +133,7 @@ def _xlsx_chunks(path: Path) -> Iterator[tuple[int, Any]]:
     import pandas as pd
     from openpyxl import load_workbook
 
+    check_xlsx(path)
     try:
         # Formulas are read as their text ("=1+1"): dropcalc does not evaluate them, so a
         # formula in a number cell is refused with its row rather than read as empty.
@@ -127,8 +145,8 @@ def _xlsx_chunks(path: Path) -> Iterator[tuple[int, Any]]:
         header = next(rows, None)
         if header is None:
             raise InputError(f"{path}: the table has no rows")
+        ignored = _check_columns(path, list(header))
         columns = [_column_name(c) if c is not None else "" for c in header]
-        ignored = _check_columns(path, columns)
         first = 2
         buffer: list[list[str]] = []
 
@@ -139,6 +157,8 @@ def _xlsx_chunks(path: Path) -> Iterator[tuple[int, Any]]:
             return chunk
 
         for values in rows:
+            if first + len(buffer) - 1 > MAX_LIST_ROWS:
+                raise _too_many_rows(path, MAX_LIST_ROWS + 1)
             cells = ["" if v is None else str(v) for v in values][: len(columns)]
             buffer.append(cells + [""] * (len(columns) - len(cells)))
             if len(buffer) == CHUNK_ROWS:

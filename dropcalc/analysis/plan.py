@@ -16,7 +16,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Sequence
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
@@ -34,7 +34,19 @@ from shapely.geometry import (
 from shapely.geometry.base import BaseGeometry
 from shapely.geometry.polygon import orient
 
-from dropcalc.errors import InputError, require_finite_positive, require_range, shorten
+from dropcalc.errors import (
+    InputError,
+    read_file,
+    require_finite_positive,
+    require_range,
+)
+from dropcalc.model.limits import (
+    EDGE_RESOLUTION,
+    MAX_COORDINATE,
+    MAX_EDGE_POINTS,
+    MAX_EDGES,
+    MAX_TEXT_FILE_BYTES,
+)
 from dropcalc.physics.constants import WGS84_INVERSE_FLATTENING, WGS84_SEMI_MAJOR_AXIS
 
 #: Offset from a segment's midpoint used to decide which side faces away from the outline [m].
@@ -63,7 +75,10 @@ _RESERVED_PROPERTIES = ("kind", "area_m2", "max_distance_m", "origin_lat", "orig
 
 
 def _points(field: str, points: Sequence[Sequence[float]]) -> tuple[tuple[float, float], ...]:
-    """Return ``points`` as a tuple of finite (x, y) float pairs, or raise InputError."""
+    """Return ``points`` as a tuple of finite (x, y) float pairs within the site, or raise."""
+    count = len(points) if isinstance(points, Sequence) else 0
+    if count > MAX_EDGE_POINTS:
+        raise InputError(f"{field}: {count:,} points; at most {MAX_EDGE_POINTS:,} (docs/limits.md)")
     try:
         array = np.asarray(points, dtype=float)
     except (TypeError, ValueError):
@@ -75,6 +90,12 @@ def _points(field: str, points: Sequence[Sequence[float]]) -> tuple[tuple[float,
     if not np.all(np.isfinite(array)):
         bad = int(np.flatnonzero(~np.all(np.isfinite(array), axis=1))[0])
         raise InputError(f"{field}[{bad}] must be finite coordinates in m; got {points[bad]}")
+    if array.size and np.max(np.abs(array)) > MAX_COORDINATE:
+        bad = int(np.flatnonzero(np.any(np.abs(array) > MAX_COORDINATE, axis=1))[0])
+        raise InputError(
+            f"{field}[{bad}]: coordinates within ±{MAX_COORDINATE:,.0f} m of the origin "
+            f"(a site fits in a few km); got ({array[bad, 0]:.6g}, {array[bad, 1]:.6g})"
+        )
     return tuple((float(x), float(y)) for x, y in array)
 
 
@@ -95,6 +116,10 @@ class WorkEdge:
     name: str
     points: tuple[tuple[float, float], ...]
     height: float
+    #: Largest distance between the edge as given and its merged points [m]: a many-point edge
+    #: (a circle exported from a drawing) is merged to ``EDGE_RESOLUTION``, and the exclusion
+    #: area is widened by this distance so merging never shrinks it.
+    merged_by: float = field(default=0.0, init=False, compare=False)
 
     def __post_init__(self) -> None:
         field = f"work edge {self.name!r}"
@@ -108,6 +133,12 @@ class WorkEdge:
                     "consecutive points must differ"
                 )
         height = require_finite_positive(f"{field} height", self.height, "m")
+        if len(points) > 2:
+            given = LineString(points)
+            merged = given.simplify(EDGE_RESOLUTION, preserve_topology=False)
+            if len(merged.coords) < len(points) and len(merged.coords) >= 2:
+                object.__setattr__(self, "merged_by", float(given.hausdorff_distance(merged)))
+                points = tuple((float(x), float(y)) for x, y in merged.coords)
         object.__setattr__(self, "points", points)
         object.__setattr__(self, "height", height)
 
@@ -416,7 +447,8 @@ def exclusion_area(
     which is what is computed (for a non-convex F it is the sum of F's convex hull with the
     segment, a superset). The union over all given footprints is buffered by ``margin`` (round
     joins, ``BUFFER_QUAD_SEGMENTS`` segments per quarter circle) and the interior of the
-    building outline is removed.
+    building outline is removed. The margin is widened by the largest ``WorkEdge.merged_by``
+    (a many-point edge merged to ``EDGE_RESOLUTION``), so merging never shrinks the area.
 
     Parameters
     ----------
@@ -471,6 +503,7 @@ def exclusion_area(
         at_end = affinity.translate(polygon, end[0], end[1])
         swept.append(shapely.union(at_start, at_end).convex_hull)
     union = shapely.unary_union(swept)
+    margin += max(edge.merged_by for edge in site.edges)
     if margin > 0.0:
         union = union.buffer(margin, quad_segs=BUFFER_QUAD_SEGMENTS)
     outline = site.outline_polygon
@@ -777,14 +810,15 @@ def load_site(path: Path) -> SitePlan:
     from dropcalc.units import parse_quantity
 
     path = Path(path)
+    raw = read_file(path, "site file", MAX_TEXT_FILE_BYTES)
     try:
-        data = tomllib.loads(path.read_text(encoding="utf-8-sig"))
-    except OSError as exc:
-        raise InputError(
-            f"{shorten(path, 120)}: cannot read the site file ({exc.strerror})"
-        ) from None
+        data = tomllib.loads(raw.decode("utf-8-sig"))
+    except UnicodeDecodeError:
+        raise InputError(f"{path}: not UTF-8 text; save the site file as UTF-8") from None
     except tomllib.TOMLDecodeError as exc:
         raise InputError(f"{path}: not valid TOML ({exc})") from None
+    except RecursionError:  # tomllib recurses once per nested "[" or "{"
+        raise InputError(f"{path}: not valid TOML (arrays or tables nested too deep)") from None
     unknown = set(data) - {"origin", "outline", "edge"}
     if unknown:
         raise InputError(
@@ -793,6 +827,8 @@ def load_site(path: Path) -> SitePlan:
     raw_edges = data.get("edge")
     if not isinstance(raw_edges, list) or not raw_edges:
         raise InputError(f"{path}: expected one or more [[edge]] tables (the work edges)")
+    if len(raw_edges) > MAX_EDGES:
+        raise InputError(f"{path}: {len(raw_edges):,} edges; at most {MAX_EDGES} (docs/limits.md)")
     edges = []
     for number, raw in enumerate(raw_edges, start=1):
         where = f"{path}: edge[{number}]"

@@ -30,6 +30,11 @@ from types import MappingProxyType
 from typing import Any
 
 from dropcalc.errors import InputError, UnknownObjectError, require_file, shorten
+from dropcalc.model.limits import (
+    MAX_CELL_CHARACTERS,
+    MAX_NAME_CHARACTERS,
+    MAX_TEXT_FILE_BYTES,
+)
 from dropcalc.physics import shapes
 from dropcalc.resources import data_path
 from dropcalc.units import parse_quantity
@@ -473,7 +478,7 @@ def load_library(extra: Path | str | None = None) -> Library:
     builtin = _builtin_library()
     if extra is None:
         return builtin
-    path = require_file(extra, "object file")
+    path = require_file(extra, "object file", MAX_TEXT_FILE_BYTES)
     suffix = path.suffix.lower()
     if suffix == ".toml":
         user = _read_toml(path, builtin=False)
@@ -520,6 +525,8 @@ def _read_toml(path: Path, *, builtin: bool) -> list[DropObject]:
         document = tomllib.loads(text)
     except tomllib.TOMLDecodeError as error:
         raise InputError(f"{path.name}: not valid TOML: {error}") from None
+    except RecursionError:  # tomllib recurses once per nested "[" or "{"
+        raise InputError(f"{path.name}: not valid TOML: arrays nested too deep") from None
     lines = text.splitlines()
     starts = [number for number, line in enumerate(lines, start=1) if _TABLE_RE.match(line)]
     unknown = [key for key in document if key != _OBJECT_TABLE]
@@ -585,6 +592,11 @@ def _read_csv(path: Path) -> list[DropObject]:
     if not rows:
         raise InputError(f"{path.name}: the file is empty; row 1 must name the columns")
     header = [name.strip() for name in rows[0]]
+    repeated = [name for number, name in enumerate(header) if name in header[:number]]
+    if repeated:
+        raise InputError(
+            f'{path.name}: row 1: column "{shorten(repeated[0], 40)}" appears twice; keep one'
+        )
     for name in header:
         if name not in CSV_COLUMNS and not name.startswith(COMPUTED_PREFIX):
             raise InputError(
@@ -733,6 +745,9 @@ def _object_from_record(
         value = record.get(key, "")
         if not isinstance(value, str):
             raise InputError(f"{locate(key)}{key} must be text; got {value!r}")
+        limit = MAX_NAME_CHARACTERS if key in ("id", "name") else MAX_CELL_CHARACTERS
+        if len(value.strip()) > limit:
+            raise InputError(f"{locate(key)}{key}: {len(value):,} characters; at most {limit:,}")
         return value.strip()
 
     def quantity(key: str, kind: str) -> float:

@@ -18,7 +18,16 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
-from dropcalc.errors import DropcalcError, InputError, shorten
+from dropcalc.errors import DropcalcError, InputError, read_file, shorten
+from dropcalc.model.limits import (
+    MAX_EDGES,
+    MAX_NAME_CHARACTERS,
+    MAX_OBJECTS,
+    MAX_REFERENCE_LEVELS,
+    MAX_TEXT_FILE_BYTES,
+    MAX_TITLE_CHARACTERS,
+    MAX_WORK_AREAS,
+)
 
 #: Tables and keys a scenario may have (anything else is a mistake, reported as such).
 _KEYS: dict[str, set[str]] = {
@@ -185,12 +194,7 @@ def load_scenario(path: Path) -> Scenario:
     from dropcalc.units import parse_direction, parse_quantity
 
     path = Path(path)
-    try:
-        raw_bytes = path.read_bytes()
-    except OSError as exc:
-        raise InputError(
-            f"{shorten(path, 120)}: cannot read the scenario ({exc.strerror})"
-        ) from None
+    raw_bytes = read_file(path, "scenario", MAX_TEXT_FILE_BYTES)
     try:
         text = raw_bytes.decode("utf-8-sig")
         data = tomllib.loads(text)
@@ -198,6 +202,8 @@ def load_scenario(path: Path) -> Scenario:
         raise InputError(f"{path.name}: not UTF-8 text; save the scenario as UTF-8") from None
     except tomllib.TOMLDecodeError as exc:
         raise InputError(f"{path.name}: not valid TOML: {exc}") from None
+    except RecursionError:  # tomllib recurses once per nested "[" or "{"
+        raise InputError(f"{path.name}: not valid TOML: arrays or tables nested too deep") from None
     where = _Where(path, text)
 
     def check_keys(table: dict[str, Any], kind: str, key_path: str) -> None:
@@ -242,16 +248,26 @@ def load_scenario(path: Path) -> Scenario:
                 raise where.error(fields[first], message) from None
             raise where.error(key_path, message) from None
 
-    def text_of(value: Any, key_path: str) -> str:
+    def text_of(value: Any, key_path: str, limit: int = MAX_NAME_CHARACTERS) -> str:
         if not isinstance(value, str | int | float) or isinstance(value, bool):
-            raise where.error(key_path, f"expected text; got {value!r}")
+            raise where.error(key_path, f"expected text; got {shorten(repr(value), 60)}")
+        if len(str(value)) > limit:
+            raise where.error(
+                key_path, f"{len(str(value)):,} characters; at most {limit} (docs/limits.md)"
+            )
         return str(value)
+
+    def at_most(items: list[Any], limit: int, key_path: str, what: str) -> None:
+        if len(items) > limit:
+            raise where.error(
+                key_path, f"{len(items):,} {what}; at most {limit:,} (docs/limits.md)"
+            )
 
     check_keys(data, "", "")
     job_table = table("job")
     if "title" not in job_table:
         raise where.error("job.title", "missing: every report needs a title")
-    job = {k: text_of(v, f"job.{k}") for k, v in job_table.items()}
+    job = {k: text_of(v, f"job.{k}", MAX_TITLE_CHARACTERS) for k, v in job_table.items()}
 
     site_table = table("site")
     elevation = quantity(site_table.get("elevation", 0), "length", "site.elevation")
@@ -357,6 +373,7 @@ def load_scenario(path: Path) -> Scenario:
     level_keys = policy.get("levels", list(DEFAULT_LEVEL_KEYS))
     if not isinstance(level_keys, list):
         raise where.error("policy.levels", "expected a list of reference level keys")
+    at_most(level_keys, MAX_REFERENCE_LEVELS, "policy.levels", "reference levels")
     levels = tuple(model("policy.levels", lambda k=k: reference_level(str(k))) for k in level_keys)
     rules = DEFAULT_RULES
     if "rules_file" in policy:
@@ -366,6 +383,9 @@ def load_scenario(path: Path) -> Scenario:
     raw_areas = data.get("work_area")
     if not isinstance(raw_areas, list) or not raw_areas:
         raise where.error("work_area", "expected one or more [[work_area]] tables")
+    at_most(raw_areas, MAX_WORK_AREAS, "work_area", "work areas")
+    every_edge = [e for a in raw_areas if isinstance(a, dict) for e in a.get("edge") or []]
+    at_most(every_edge, MAX_EDGES, "work_area", "edges in all work areas together")
     areas = []
     for a, raw in enumerate(raw_areas, start=1):
         key = f"work_area[{a}]"
@@ -419,6 +439,10 @@ def load_scenario(path: Path) -> Scenario:
         edges = []
         for e, raw_edge in enumerate(raw_edges, start=1):
             edge_key = f"{key}.edge[{e}]"
+            if not isinstance(raw_edge, dict):
+                raise where.error(
+                    f"{key}.edge", "expected [[work_area.edge]] tables with points and height"
+                )
             check_keys(raw_edge, "edge", edge_key)
             for needed in ("points", "height"):
                 if needed not in raw_edge:
@@ -448,6 +472,7 @@ def load_scenario(path: Path) -> Scenario:
     raw_objects = data.get("object", [])
     if not isinstance(raw_objects, list):
         raise where.error("object", "expected [[object]] tables")
+    at_most(raw_objects, MAX_OBJECTS, "object", "objects")
     items = []
     settings = BatchSettings(height=max(e.height for w in areas for e in w.site.edges))
     import pandas as pd
@@ -458,6 +483,9 @@ def load_scenario(path: Path) -> Scenario:
         if not isinstance(raw, dict):
             raise where.error(key, "expected a table")
         check_keys(raw, "object", key)
+        for k, v in raw.items():
+            if k in ("id", "label"):
+                text_of(v, f"{key}.{k}")
         records.append({k: str(v) for k, v in raw.items()})
     if records:
         frame = pd.DataFrame(records).fillna("")
@@ -478,6 +506,7 @@ def load_scenario(path: Path) -> Scenario:
             first = errors[0]
             raise where.error("objects_file", f"{list_path.name}: row {first.row}: {first.message}")
         items.extend(parsed)
+        at_most(items, MAX_OBJECTS, "objects_file", "objects ([[object]] tables and the file)")
     if not items:
         raise where.error("object", "no objects: add [[object]] tables or an objects_file")
     for item in items:

@@ -11,9 +11,11 @@ this module costs nothing.
 
 from __future__ import annotations
 
+import functools
 import math
+from collections.abc import Callable
 from pathlib import Path
-from typing import Any
+from typing import Any, TypeVar
 
 from shapely.geometry import MultiPolygon, Polygon
 
@@ -23,6 +25,27 @@ from dropcalc.io.atomic import write_atomic
 from dropcalc.texts import format_area, keep_clear
 
 PLOT_FORMATS = (".png", ".svg")
+
+_Drawing = TypeVar("_Drawing", bound=Callable[..., Any])
+
+
+def literal_text(draw: _Drawing) -> _Drawing:
+    r"""Run a drawing function with every text drawn literally, as typed.
+
+    Names and labels come from users: "north $\frac{1}$ eave" or "cost $x^$ tile" must be drawn
+    as written, not read as math markup (which fails on them) or passed to a TeX installation.
+    matplotlib takes ``text.parse_math`` and ``text.usetex`` when each text is created.
+    """
+
+    @functools.wraps(draw)
+    def wrapper(*args: Any, **kwargs: Any) -> Any:
+        import matplotlib
+
+        with matplotlib.rc_context({"text.parse_math": False, "text.usetex": False}):
+            return draw(*args, **kwargs)
+
+    return wrapper  # type: ignore[return-value]
+
 
 #: Positions on the cividis colour map (0 dark blue ... 1 yellow) of the area fill and outline.
 AREA_FILL_LEVEL = 0.80
@@ -156,6 +179,7 @@ def _label_edges(axes: Any, site: Site, offset: float) -> None:
         )
 
 
+@literal_text
 def plot_plan(
     area: ExclusionArea,
     site: Site,

@@ -35,6 +35,7 @@ from dropcalc.errors import InputError, require_suffix
 from dropcalc.io.atomic import write_atomic
 from dropcalc.physics.constants import STANDARD_GRAVITY
 from dropcalc.physics.trajectory import WindField, sample_path, solve_falls
+from dropcalc.present.plan_plot import literal_text
 
 if TYPE_CHECKING:
     from dropcalc.analysis.fall import FallResult
@@ -443,6 +444,7 @@ def _wind_kind_label(cases: Sequence[SideViewCase], gust: bool) -> str:
     return f"{name}, {speeds.pop()}" if len(speeds) == 1 else name
 
 
+@literal_text
 def side_view(
     path: Path,
     cases: list[SideViewCase],
@@ -710,6 +712,7 @@ def _spread(positions: Sequence[float], gap: float, low: float, high: float) -> 
     return placed
 
 
+@literal_text
 def energy_height(
     path: Path,
     objects: list[EnergyCurve],
