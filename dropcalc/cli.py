@@ -13,7 +13,14 @@ from typing import Annotated, Any
 import typer
 from typer.core import TyperGroup
 
-from dropcalc.errors import DropcalcError, InputError, one_line, require_suffix, shorten
+from dropcalc.errors import (
+    DropcalcError,
+    InputError,
+    one_line,
+    printable,
+    require_suffix,
+    shorten,
+)
 
 
 class _OneLineErrors(TyperGroup):
@@ -36,7 +43,9 @@ class _OneLineErrors(TyperGroup):
             code = 1
         except OSError as exc:  # a file the commands did not foresee: still one line, exit 2
             name = shorten(exc.filename, 120) if exc.filename else "a file"
-            typer.echo(f"dropcalc: error: cannot use {name}: {exc.strerror or exc}", err=True)
+            typer.echo(
+                one_line(f"dropcalc: error: cannot use {name}: {exc.strerror or exc}"), err=True
+            )
             code = 2
         if standalone_mode:
             sys.exit(code)
@@ -484,7 +493,7 @@ def fall(
     if as_json:
         typer.echo(json.dumps(result.to_json(), indent=2, allow_nan=False))
     else:
-        typer.echo(render_fall(result, units.value))
+        typer.echo(printable(render_fall(result, units.value)))
 
 
 @app.command()
@@ -577,10 +586,10 @@ def batch(
                         break
                     top.append(row)
                 typer.echo(
-                    render_batch(
+                    printable(render_batch(
                         top, settings, units.value, run.ignored_columns, out,
                         total_good=run.good, total_bad=run.bad,
-                    )
+                    ))
                 )  # fmt: skip
         finally:
             run.close()
@@ -783,7 +792,7 @@ def zone(
             out.update(site_json(site_result))
         typer.echo(json.dumps(out, indent=2, allow_nan=False))
     else:
-        typer.echo(render_zone(result, units.value, limits, site_result))
+        typer.echo(printable(render_zone(result, units.value, limits, site_result)))
 
 
 def _write_plan(
@@ -912,7 +921,7 @@ def report(
     if as_json:
         typer.echo(json.dumps(summary, indent=2, allow_nan=False))
     else:
-        typer.echo(_report_lines(summary))
+        typer.echo(printable(_report_lines(summary)))
         if out_dir is not None:
             typer.echo(_files_line(out_dir, summary["files"]))
 
@@ -1021,7 +1030,7 @@ def demo(
     if as_json:
         typer.echo(json.dumps(summary, indent=2, allow_nan=False))
         return
-    typer.echo(_report_lines(summary))
+    typer.echo(printable(_report_lines(summary)))
     typer.echo(_files_line(out, files).replace("Files in", "Demo files in", 1))
 
 
@@ -1133,7 +1142,7 @@ def objects(
         return
     from dropcalc.present.text import render_objects
 
-    typer.echo(render_objects(chosen, units.value))
+    typer.echo(printable(render_objects(chosen, units.value)))
 
 
 @objects_app.command("show")
@@ -1156,7 +1165,7 @@ def objects_show(
         return
     from dropcalc.present.text import render_object
 
-    typer.echo(render_object(obj, units.value))
+    typer.echo(printable(render_object(obj, units.value)))
 
 
 def _progress(quiet: bool) -> Any:

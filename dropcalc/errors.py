@@ -8,6 +8,7 @@ field, the value given and what is allowed, e.g.
 
 from __future__ import annotations
 
+import re
 import stat
 from pathlib import Path
 
@@ -175,9 +176,21 @@ def require_suffix(path: object, allowed: tuple[str, ...], field: str) -> str:
 MAX_MESSAGE = 400
 
 
+_CONTROL_RE = re.compile(r"[\x00-\x08\x0b-\x1f\x7f-\x9f]")
+
+
+def printable(text: str) -> str:
+    r"""Text safe to print on a terminal: control and escape characters shown as ``\xNN``.
+
+    An id such as ``brick\e]0;TITLE\a`` would otherwise set the terminal's title (or worse)
+    when a row error quotes it. Line breaks and tabs are kept.
+    """
+    return _CONTROL_RE.sub(lambda match: f"\\x{ord(match.group()):02x}", text)
+
+
 def one_line(message: str) -> str:
-    """A message fit for one terminal line: line breaks escaped, at most MAX_MESSAGE long."""
-    message = message.replace("\r", "\\r").replace("\n", "\\n")
+    """A message fit for one terminal line: control characters escaped, MAX_MESSAGE long."""
+    message = printable(message.replace("\r", "\\r").replace("\n", "\\n"))
     if len(message) <= MAX_MESSAGE:
         return message
     keep = (MAX_MESSAGE - 5) // 2

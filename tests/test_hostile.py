@@ -345,3 +345,77 @@ def test_dollar_names_are_drawn_literally_in_every_figure(tmp_path: Path, name: 
     # The text went to the SVG as typed (matplotlib writes it as glyph paths and keeps it in
     # no element, so look for the absence of failure and a written file of each kind).
     assert sorted(p.name for p in tmp_path.iterdir()) == ["energy.png", "plan.png", "side.svg"]
+
+
+# --------------------------------------------------------------------------------------------
+# Security: formulas, escape sequences, file references
+
+
+def test_a_formula_after_a_separator_is_neutralised_and_the_cell_quoted(tmp_path: Path) -> None:
+    import csv
+
+    hostile = "Tile;=cmd|' /C calc'!A0;"
+    items = tmp_path / "items.csv"
+    items.write_text(f'label,mass,drag_area\n"{hostile}",1 kg,0.01\n', encoding="utf-8")
+    out = tmp_path / "rows.csv"
+    result = invoke("batch", str(items), "--height", "5 m", "--out", str(out))
+    assert result.exit_code == 0, result.output
+    text = out.read_text(encoding="utf-8")
+    assert "\"Tile;'=cmd|' /C calc'!A0;\"" in text  # quoted whole, formula start defused
+    # A spreadsheet splitting on ";" gets no cell that starts with a formula character.
+    for line in text.splitlines():
+        for cell in line.split(";"):
+            assert not cell.lstrip('"').startswith(("=", "+", "-", "@")), cell
+    with out.open(encoding="utf-8", newline="") as handle:
+        (record,) = list(csv.DictReader(handle))
+    assert record["label"] == "Tile;'=cmd|' /C calc'!A0;"
+
+
+def test_control_characters_are_removed_from_xlsx_output(tmp_path: Path) -> None:
+    from openpyxl import load_workbook
+
+    items = tmp_path / "items.csv"
+    items.write_text("label,mass,drag_area\nA\x01B,1 kg,0.01\n", encoding="utf-8")
+    out = tmp_path / "rows.xlsx"
+    result = invoke("batch", str(items), "--height", "5 m", "--out", str(out))
+    assert result.exit_code == 0, result.output
+    sheet = load_workbook(out).active
+    header = [cell.value for cell in sheet[1]]
+    assert sheet.cell(2, header.index("label") + 1).value == "AB"
+
+
+def test_escape_sequences_are_not_sent_to_the_terminal(tmp_path: Path) -> None:
+    items = tmp_path / "items.csv"
+    items.write_text(
+        "id,label\nbrick\x1b]0;PWNED-TITLE\x07,x\ncombination-spanner-19mm,ok \x1b[31mred\n",
+        encoding="utf-8",
+    )
+    result = invoke("batch", str(items), "--height", "5 m")
+    assert result.exit_code == 1, result.output
+    assert "\x1b" not in result.stdout
+    assert "\x1b" not in result.stderr
+    assert "\x07" not in result.stderr
+    assert "brick\\x1b]0;PWNED-TITLE\\x07" in result.stderr  # shown, escaped
+
+
+@pytest.mark.parametrize(
+    ("reference", "key"),
+    [('objects_file = "/etc/passwd"\n', "line 1: objects_file"),
+     ('[policy]\nrules_file = "/etc/passwd"\n', "line 2: policy.rules_file")],
+)  # fmt: skip
+def test_a_scenario_without_file_references_opens_no_file(
+    tmp_path: Path, reference: str, key: str, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    text = reference + SCENARIO.replace("[policy]\nprecision = 0.2\n", "")
+    path = write_scenario(tmp_path, text)
+    opened: list[str] = []
+    real_open = Path.open
+
+    def spy(self: Path, *args: Any, **kwargs: Any) -> Any:
+        opened.append(str(self))
+        return real_open(self, *args, **kwargs)
+
+    monkeypatch.setattr(Path, "open", spy)
+    with pytest.raises(InputError, match=rf"{key}: this scenario may not name files"):
+        load_scenario(path, allow_file_references=False)
+    assert "/etc/passwd" not in opened

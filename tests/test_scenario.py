@@ -275,7 +275,9 @@ def test_objects_file_row_error_names_file_and_row(tmp_path: Path) -> None:
     assert len(lines) == 1, result.stderr
     # items.csv row 2 is the first data row under the header.
     assert "scenario.toml: line 1: objects_file: items.csv: row 2: " in lines[0], lines[0]
-    assert "bogus-id" in lines[0]
+    # The cell is named, not quoted: a scenario must not echo the content of a file it names.
+    assert "the id cell cannot be used" in lines[0], lines[0]
+    assert "bogus-id" not in lines[0]
     assert not (tmp_path / "out.pdf").exists()
 
 

@@ -832,14 +832,27 @@ def sort_rows(rows: list[dict[str, Any]]) -> list[dict[str, Any]]:
 # --------------------------------------------------------------------------------------------
 # Writing
 
-_FORMULA_START = ("=", "+", "-", "@", "\t", "\r")
+_FORMULA_START = ("=", "+", "-", "@")
+#: Characters XLSX cannot hold and a terminal or spreadsheet may act on (C0, DEL, C1).
+_CONTROL_RE = re.compile(r"[\x00-\x1f\x7f-\x9f]")
+#: A formula start right after a separator a spreadsheet may split the cell on (a European
+#: locale splits CSV on ";"): "Tile;=cmd|' /C calc'!A0".
+_SEPARATED_FORMULA_RE = re.compile(r"([,;\t|]\s*)(?=[=+\-@])")
 
 
 def neutralise(value: Any) -> Any:
-    """Prefix text that a spreadsheet would run as a formula with an apostrophe."""
-    if isinstance(value, str) and value.startswith(_FORMULA_START):
-        return "'" + value
-    return value
+    """A text cell made safe for a spreadsheet; other values as they are.
+
+    Control characters are removed (line breaks and tabs become spaces), and an apostrophe is
+    put before every start that a spreadsheet would run as a formula: at the start of the cell
+    (after any spaces) and after any separator within it. CSV writers also quote every text
+    cell, so a separator inside one never splits it.
+    """
+    if not isinstance(value, str):
+        return value
+    text = _CONTROL_RE.sub(lambda match: " " if match.group() in "\t\n\r" else "", value)
+    text = _SEPARATED_FORMULA_RE.sub(r"\1'", text)
+    return "'" + text if text.lstrip().startswith(_FORMULA_START) else text
 
 
 def rows_frame(rows: Sequence[dict[str, Any]]) -> pd.DataFrame:

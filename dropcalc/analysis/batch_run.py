@@ -308,7 +308,7 @@ def write_run(path: Path, run: BatchRun) -> None:
 
     def write_csv(target: Path) -> None:
         with target.open("w", encoding="utf-8", newline="") as handle:
-            writer = csv.writer(handle)
+            writer = csv.writer(handle, quoting=csv.QUOTE_NONNUMERIC)  # every text cell quoted
             writer.writerow(columns)
             for row in run.rows():
                 writer.writerow(["" if v is None else v for v in cells(row)])

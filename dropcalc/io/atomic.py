@@ -6,6 +6,7 @@ only when complete (``os.replace`` is atomic on one file system).
 
 from __future__ import annotations
 
+import csv
 import json
 import os
 import tempfile
@@ -61,6 +62,9 @@ def write_rows(path: Path, rows: Sequence[dict[str, Any]]) -> None:
         return
     frame = rows_frame(rows)
     if suffix == ".csv":
-        write_atomic(path, lambda p: frame.to_csv(p, index=False, encoding="utf-8"))
+        write_atomic(
+            path,
+            lambda p: frame.to_csv(p, index=False, encoding="utf-8", quoting=csv.QUOTE_NONNUMERIC),
+        )
     else:
         write_atomic(path, lambda p: frame.to_excel(p, index=False, engine="openpyxl"))

@@ -57,6 +57,13 @@ _KEYS: dict[str, set[str]] = {
 }  # fmt: skip
 
 
+#: Said when a scenario loaded without file references names a file.
+_NO_FILE_REFERENCES = (
+    "this scenario may not name files (it was not read from the command line); "
+    "give its objects as [[object]] tables and leave rules_file out (default rules)"
+)
+
+
 @dataclass(frozen=True)
 class WorkArea:
     """One work area: edges with heights, and how objects leave them."""
@@ -171,16 +178,27 @@ class _Where:
         return ScenarioError(f"{self.path.name}: {at}{key_path}: {message}", key_path)
 
 
-def load_scenario(path: Path) -> Scenario:
+def load_scenario(path: Path, *, allow_file_references: bool = True) -> Scenario:
     """Read and validate a scenario file.
+
+    Parameters
+    ----------
+    path : pathlib.Path
+        The scenario (TOML).
+    allow_file_references : bool
+        Whether ``objects_file`` and ``policy.rules_file`` may name files to open (relative
+        to the scenario's folder, or any path). True on the command line, where users read
+        their own files; a scenario that came from elsewhere (uploaded to the local page) is
+        loaded with False, and then a file reference is refused without opening anything.
 
     Raises
     ------
     InputError
         For a file that cannot be read, is not TOML, or has a wrong key, value or unit; the
-        message names the file, the line and the key path.
+        message names the file, the line and the key path. A mistake inside a referenced
+        objects file is named by its row and column, without quoting the file's content.
     """
-    from dropcalc.analysis.batch import BatchSettings, parse_items, read_table
+    from dropcalc.analysis.batch import KNOWN_COLUMNS, BatchSettings, parse_items, read_table
     from dropcalc.analysis.fall import MAX_RELEASE_HEIGHT, MIN_RELEASE_HEIGHT
     from dropcalc.analysis.plan import Site, WorkEdge
     from dropcalc.io.library import load_library
@@ -377,6 +395,8 @@ def load_scenario(path: Path) -> Scenario:
     levels = tuple(model("policy.levels", lambda k=k: reference_level(str(k))) for k in level_keys)
     rules = DEFAULT_RULES
     if "rules_file" in policy:
+        if not allow_file_references:
+            raise where.error("policy.rules_file", _NO_FILE_REFERENCES)
         rules_path = path.parent / str(policy["rules_file"])
         rules = model("policy.rules_file", lambda: load_policy(rules_path))
 
@@ -499,12 +519,21 @@ def load_scenario(path: Path) -> Scenario:
             raise where.error(key, first.message)
         items.extend(parsed)
     if "objects_file" in data:
+        if not allow_file_references:
+            raise where.error("objects_file", _NO_FILE_REFERENCES)
         list_path = path.parent / str(data["objects_file"])
         frame = model("objects_file", lambda: read_table(list_path))
         parsed, errors = parse_items(frame, library, settings)
         if errors:
             first = errors[0]
-            raise where.error("objects_file", f"{list_path.name}: row {first.row}: {first.message}")
+            column = first.message.split(":", 1)[0].split(" ", 1)[0]
+            column = "id" if first.message.startswith("unknown object") else column
+            cell = f"the {column} cell" if column in KNOWN_COLUMNS else "a cell"
+            raise where.error(
+                "objects_file",
+                f"{list_path.name}: row {first.row}: {cell} cannot be used "
+                f"(dropcalc batch {list_path.name} --height 10 says why)",
+            )
         items.extend(parsed)
         at_most(items, MAX_OBJECTS, "objects_file", "objects ([[object]] tables and the file)")
     if not items:

@@ -99,7 +99,7 @@ def load_form(form_data: Any) -> tuple[Any, str]:
         with tempfile.TemporaryDirectory(prefix="dropcalc-page-") as folder:
             path = Path(folder) / SCENARIO_NAME
             path.write_text(text, encoding="utf-8")
-            scenario = load_scenario(path)
+            scenario = load_scenario(path, allow_file_references=False)
     except DropcalcError as exc:
         raise FormError([field_error(exc)]) from None
     return scenario, text
