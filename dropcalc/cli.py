@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import json
 import math
+import signal
 import sys
 from dataclasses import dataclass
 from enum import StrEnum
@@ -1190,6 +1191,18 @@ def _progress(quiet: bool) -> Any:
     return update
 
 
+def stop_on_signal(signum: int, frame: Any) -> None:
+    """SIGTERM handler: leave through SystemExit, so that every cleanup runs.
+
+    Python's default SIGTERM ends the process at once: the temporary file of an atomic write,
+    a batch run's chunk folder and openpyxl's temporary files stayed behind. Raised as
+    SystemExit, ``finally`` blocks, context managers and ``atexit`` handlers remove them; the
+    exit code is the shell's 128 + signal number. (SIGINT already raises KeyboardInterrupt.)
+    """
+    raise SystemExit(128 + signum)
+
+
 def main() -> None:
     """Entry point of the ``dropcalc`` console script."""
+    signal.signal(signal.SIGTERM, stop_on_signal)
     app()

@@ -419,3 +419,115 @@ def test_a_scenario_without_file_references_opens_no_file(
     with pytest.raises(InputError, match=rf"{key}: this scenario may not name files"):
         load_scenario(path, allow_file_references=False)
     assert "/etc/passwd" not in opened
+
+
+# --------------------------------------------------------------------------------------------
+# Signals: temporary files and folders are removed
+
+_SLOW_WRITE = """
+import signal, sys, time
+from pathlib import Path
+from dropcalc.cli import stop_on_signal
+from dropcalc.io.atomic import write_atomic
+
+signal.signal(signal.SIGTERM, stop_on_signal)
+
+def slow(temporary: Path) -> None:
+    with temporary.open("w") as handle:
+        handle.write("half a file")
+        handle.flush()
+        time.sleep(60)
+
+write_atomic(Path(sys.argv[1]), slow)
+"""
+
+
+def _wait_for(condition: Any, seconds: float = 60.0) -> None:
+    import time
+
+    end = time.monotonic() + seconds
+    while not condition():
+        assert time.monotonic() < end, "the child never got there"
+        time.sleep(0.02)
+
+
+@pytest.mark.parametrize("signal_name", ["SIGTERM", "SIGINT"])
+def test_a_signal_mid_write_leaves_the_old_file_and_no_temporary(
+    tmp_path: Path, signal_name: str
+) -> None:
+    import signal
+    import subprocess
+    import sys
+
+    target = tmp_path / "rows.csv"
+    target.write_text("the old file\n", encoding="utf-8")
+    with subprocess.Popen([sys.executable, "-c", _SLOW_WRITE, str(target)],
+                          stderr=subprocess.PIPE) as child:  # fmt: skip
+        try:
+            _wait_for(lambda: len(list(tmp_path.iterdir())) == 2)  # the temporary is written
+            child.send_signal(getattr(signal, signal_name))
+            _, stderr = child.communicate(timeout=60)
+        finally:
+            child.kill()
+    # SIGTERM: the shell's 143; SIGINT: KeyboardInterrupt, which Python ends with the signal.
+    assert child.returncode in (128 + signal.SIGTERM, -signal.SIGINT), stderr.decode()
+    assert [p.name for p in tmp_path.iterdir()] == ["rows.csv"]
+    assert target.read_text(encoding="utf-8") == "the old file\n"
+
+
+def test_sigterm_during_a_batch_removes_its_chunk_folder(tmp_path: Path) -> None:
+    import signal
+    import subprocess
+    import sys
+
+    temporary = tmp_path / "tmp"
+    temporary.mkdir()
+    items = tmp_path / "items.csv"
+    items.write_text("id\n" + "claw-hammer-16oz\n" * 30_000, encoding="utf-8")
+    out = tmp_path / "rows.json"
+    env = {**os.environ, "TMPDIR": str(temporary)}
+    command = [sys.executable, "-m", "dropcalc", "batch", str(items), "--height", "5",
+               "--out", str(out)]  # fmt: skip
+    with subprocess.Popen(
+        command, env=env, stderr=subprocess.PIPE, stdout=subprocess.PIPE
+    ) as child:
+        try:
+            _wait_for(lambda: any(temporary.iterdir()))  # the chunk folder exists: mid-run
+            child.send_signal(signal.SIGTERM)
+            _, stderr = child.communicate(timeout=60)
+        finally:
+            child.kill()
+    assert child.returncode == 128 + signal.SIGTERM, stderr.decode()
+    assert list(temporary.iterdir()) == []
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["items.csv", "tmp"]
+
+
+# --------------------------------------------------------------------------------------------
+# Numbers
+
+
+def test_zone_refuses_a_height_below_a_hands_drop_like_fall() -> None:
+    one_error_line(
+        invoke("zone", "--height", "1e-320", "--object", "claw-hammer-16oz"),
+        "--height",
+        "from 0.01 to 5000 m",
+    )
+
+
+def test_every_distance_in_the_zone_text_is_rounded_up() -> None:
+    from dropcalc.texts import keep_clear_text
+
+    args = ("zone", "--height", "30 m", "--object", "claw-hammer-16oz", "--object",
+            "brick-uk-standard", "--wind", "8 m/s", "--precision", "0.1")  # fmt: skip
+    as_json = invoke(*args, "--json")
+    assert as_json.exit_code == 0, as_json.output
+    data = json.loads(as_json.stdout)
+    lines = [" ".join(line.split()) for line in invoke(*args).stdout.splitlines()]
+    assert f"Radius at confidence {keep_clear_text(data['radius_m'])}" in lines
+    worst = keep_clear_text(data["worst_case_radius_m"])
+    assert any(line.startswith(f"Worst case (envelope) {worst} (") for line in lines), lines
+    for obj in data["objects"]:
+        shown = (
+            f"{keep_clear_text(obj['radius_m'])} / {keep_clear_text(obj['worst_case_radius_m'])}"
+        )
+        assert any(line.endswith(shown) for line in lines), (shown, lines)

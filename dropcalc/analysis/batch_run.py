@@ -308,8 +308,8 @@ def write_run(path: Path, run: BatchRun) -> None:
 
     def write_csv(target: Path) -> None:
         with target.open("w", encoding="utf-8", newline="") as handle:
+            csv.writer(handle).writerow(columns)
             writer = csv.writer(handle, quoting=csv.QUOTE_NONNUMERIC)  # every text cell quoted
-            writer.writerow(columns)
             for row in run.rows():
                 writer.writerow(["" if v is None else v for v in cells(row)])
 

@@ -30,6 +30,7 @@ import numpy as np
 
 from dropcalc.analysis.fall import CARRIED_AWAY_DISTANCE, wind_field
 from dropcalc.errors import InputError, require_range, to_float
+from dropcalc.model.limits import MAX_RELEASE_HEIGHT, MIN_RELEASE_HEIGHT
 from dropcalc.physics.atmosphere import AirState, air_state
 from dropcalc.physics.release import Release, initial_velocity
 from dropcalc.physics.scatter import (
@@ -213,8 +214,11 @@ class ZoneSettings:
 
     def __post_init__(self) -> None:
         height = to_float("height", self.height, "m")
-        if not (math.isfinite(height) and 0 < height <= 5000):
-            raise InputError(f"height must be a finite length > 0 and <= 5000 m; got {height:g} m")
+        if not (MIN_RELEASE_HEIGHT <= height <= MAX_RELEASE_HEIGHT):  # as a single fall
+            raise InputError(
+                f"height must be from {MIN_RELEASE_HEIGHT:g} to {MAX_RELEASE_HEIGHT:g} m; "
+                f"got {height:g} m"
+            )
         require_range("confidence", self.confidence, 0.5, 0.9999, "")
         require_range("margin", self.margin, 0.0, 100.0, "m")
         from dropcalc.analysis.fall import GRAVITY_RANGE

@@ -62,9 +62,12 @@ def write_rows(path: Path, rows: Sequence[dict[str, Any]]) -> None:
         return
     frame = rows_frame(rows)
     if suffix == ".csv":
-        write_atomic(
-            path,
-            lambda p: frame.to_csv(p, index=False, encoding="utf-8", quoting=csv.QUOTE_NONNUMERIC),
-        )
+
+        def write_csv(target: Path) -> None:
+            frame.head(0).to_csv(target, index=False, encoding="utf-8")  # the header, plain
+            frame.to_csv(target, mode="a", index=False, header=False, encoding="utf-8",
+                         quoting=csv.QUOTE_NONNUMERIC)  # every text cell quoted  # fmt: skip
+
+        write_atomic(path, write_csv)
     else:
         write_atomic(path, lambda p: frame.to_excel(p, index=False, engine="openpyxl"))

@@ -510,12 +510,12 @@ def render_zone(
     lines.append("")
     rows = [
         ("Keep clear (rounded up)", keep_clear_text(r.radius, system)),
-        ("Radius at confidence", _fmt(r.radius, "length", system, 4)),
+        ("Radius at confidence", keep_clear_text(r.radius, system)),
         ("  air drift", _fmt(d.drift, "length", system)),
         ("  scatter after landing", _fmt(d.scatter, "length", system)),
         ("  margin", _fmt(s.margin, "length", system)),
         ("  standard error", f"{_fmt(d.standard_error, 'length', system)} ({d.samples} samples)"),
-        ("Worst case (envelope)", f"{_fmt(r.worst_case, 'length', system)} "
+        ("Worst case (envelope)", f"{keep_clear_text(r.worst_case, system)} "
                                   f"({r.worst_case_driver.obj.name})"),
         ("Work height", _fmt(s.height, "length", system)),
         ("Wind", f"{_fmt(s.wind.speed_10m, 'speed', system)} {s.wind.kind} at "
@@ -546,16 +546,16 @@ def render_zone(
             lines.append(
                 f"    {name} (segment {index + 1}, {_fmt(z.settings.height, 'length', system)}, "
                 f"facing "
-                f"{z.settings.edge_azimuth:.0f}°): {_fmt(z.radius, 'length', system)}"
-                f" / worst case {_fmt(z.worst_case, 'length', system)}"
+                f"{z.settings.edge_azimuth:.0f}°): {keep_clear_text(z.radius, system)}"
+                f" / worst case {keep_clear_text(z.worst_case, system)}"
             )
     if len(r.objects) > 1:
         lines.append("")
         lines.append("  Per object (radius at confidence / worst case):")
         for z in sorted(r.objects, key=lambda z: -z.radius):
             lines.append(
-                f"    {z.obj.name[:48]:<48} {_fmt(z.radius, 'length', system):>9} / "
-                f"{_fmt(z.worst_case, 'length', system)}"
+                f"    {z.obj.name[:48]:<48} {keep_clear_text(z.radius, system):>9} / "
+                f"{keep_clear_text(z.worst_case, system)}"
             )
     lines.append("")
     lines.extend(textwrap.wrap(

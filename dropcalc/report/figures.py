@@ -36,6 +36,7 @@ from dropcalc.io.atomic import write_atomic
 from dropcalc.physics.constants import STANDARD_GRAVITY
 from dropcalc.physics.trajectory import WindField, sample_path, solve_falls
 from dropcalc.present.plan_plot import literal_text
+from dropcalc.texts import keep_clear
 
 if TYPE_CHECKING:
     from dropcalc.analysis.fall import FallResult
@@ -665,7 +666,8 @@ def side_view(
 
 
 def _metres(distance: float) -> str:
-    return f"{distance:.1f} m" if abs(distance) < 100 else f"{distance:,.0f} m"
+    """A distance from the edge as a reader keeps clear of it: rounded up to 0.1 m."""
+    return f"{keep_clear(distance)} m"
 
 
 def _to_rgb(colour: str) -> tuple[float, float, float]:
