@@ -254,7 +254,11 @@ def test_duplicate_headers_are_refused_in_a_library_csv(tmp_path: Path) -> None:
 
 def test_too_many_object_tables_are_refused_by_count(tmp_path: Path) -> None:
     objects = '[[object]]\nid = "combination-spanner-19mm"\n' * MAX_OBJECTS
-    with pytest.raises(InputError, match=rf"object: {MAX_OBJECTS + 1:,} objects; at most"):
+    # Named at the first table over the limit: BASE's object is line 13, each added one 2 lines.
+    line = 13 + 2 * MAX_OBJECTS
+    with pytest.raises(
+        InputError, match=rf"line {line}: object\[{MAX_OBJECTS + 1}\]: {MAX_OBJECTS + 1:,} objects"
+    ):
         load_scenario(write_scenario(tmp_path, SCENARIO + objects))
 
 
@@ -531,3 +535,21 @@ def test_every_distance_in_the_zone_text_is_rounded_up() -> None:
             f"{keep_clear_text(obj['radius_m'])} / {keep_clear_text(obj['worst_case_radius_m'])}"
         )
         assert any(line.endswith(shown) for line in lines), (shown, lines)
+
+
+def test_a_streamed_workbook_without_a_declared_range_is_counted_before_loading(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    from openpyxl import Workbook
+
+    import dropcalc.analysis.batch as batch
+
+    monkeypatch.setattr(batch, "MAX_LIST_ROWS", 50)  # the real limit takes a minute to write
+    book = Workbook(write_only=True)  # writes no <dimension> element
+    sheet = book.create_sheet()
+    sheet.append(["id"])
+    for _ in range(60):
+        sheet.append(["claw-hammer-16oz"])
+    book.save(tmp_path / "items.xlsx")
+    with pytest.raises(InputError, match=r"items.xlsx: a sheet holds 60 rows or more; at most 50"):
+        batch.check_xlsx(tmp_path / "items.xlsx")

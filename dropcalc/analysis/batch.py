@@ -175,6 +175,21 @@ def check_columns(path: Path, raw_names: Sequence[object]) -> list[str]:
     return names
 
 
+def _count_rows(archive: Any, member: Any) -> int:
+    """Rows in a sheet's XML, counted block by block (the sheet is never held whole)."""
+    rows = 0
+    tail = b""
+    with archive.open(member) as handle:
+        while block := handle.read(1 << 20):
+            data = tail + block
+            rows += len(re.findall(rb"<(?:\w+:)?row[\s>]", data))
+            tail = data[-16:]
+            rows -= len(re.findall(rb"<(?:\w+:)?row[\s>]", tail))  # counted again next block
+            if rows > MAX_LIST_ROWS + 1:
+                break
+    return rows + len(re.findall(rb"<(?:\w+:)?row[\s>]", tail))
+
+
 def check_xlsx(path: Path) -> None:
     """Refuse a workbook too large to load, from what its archive declares, before loading it.
 
@@ -199,7 +214,13 @@ def check_xlsx(path: Path) -> None:
                 with archive.open(member) as handle:
                     start = handle.read(4096).decode("utf-8", "replace")
                 ref = re.search(r"<(?:\w+:)?dimension\s+ref=\"[A-Z]+\d+:([A-Z]+)(\d+)\"", start)
-                if ref is None:
+                if ref is None:  # no declared range (a streamed writer): count the rows
+                    rows = _count_rows(archive, member)
+                    if rows > MAX_LIST_ROWS + 1:
+                        raise InputError(
+                            f"{path.name}: a sheet holds {rows - 1:,} rows or more; at most "
+                            f"{MAX_LIST_ROWS:,} are read (docs/limits.md)"
+                        )
                     continue
                 columns = 0
                 for letter in ref[1]:

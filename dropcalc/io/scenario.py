@@ -403,9 +403,16 @@ def load_scenario(path: Path, *, allow_file_references: bool = True) -> Scenario
     raw_areas = data.get("work_area")
     if not isinstance(raw_areas, list) or not raw_areas:
         raise where.error("work_area", "expected one or more [[work_area]] tables")
-    at_most(raw_areas, MAX_WORK_AREAS, "work_area", "work areas")
-    every_edge = [e for a in raw_areas if isinstance(a, dict) for e in a.get("edge") or []]
-    at_most(every_edge, MAX_EDGES, "work_area", "edges in all work areas together")
+    # An array of tables is named at its first table over the limit (key path and line).
+    at_most(raw_areas, MAX_WORK_AREAS, f"work_area[{MAX_WORK_AREAS + 1}]", "work areas")
+    every_edge = [
+        f"work_area[{a}].edge[{e}]"
+        for a, area in enumerate(raw_areas, start=1)
+        if isinstance(area, dict) and isinstance(area.get("edge"), list)
+        for e in range(1, len(area["edge"]) + 1)
+    ]
+    if len(every_edge) > MAX_EDGES:
+        at_most(every_edge, MAX_EDGES, every_edge[MAX_EDGES], "edges in all work areas together")
     areas = []
     for a, raw in enumerate(raw_areas, start=1):
         key = f"work_area[{a}]"
@@ -492,7 +499,7 @@ def load_scenario(path: Path, *, allow_file_references: bool = True) -> Scenario
     raw_objects = data.get("object", [])
     if not isinstance(raw_objects, list):
         raise where.error("object", "expected [[object]] tables")
-    at_most(raw_objects, MAX_OBJECTS, "object", "objects")
+    at_most(raw_objects, MAX_OBJECTS, f"object[{MAX_OBJECTS + 1}]", "objects")
     items = []
     settings = BatchSettings(height=max(e.height for w in areas for e in w.site.edges))
     import pandas as pd
@@ -516,7 +523,10 @@ def load_scenario(path: Path, *, allow_file_references: bool = True) -> Scenario
             word = first.message.split(" ", 1)[0].rstrip(":")
             if word in _KEYS["object"] or word.startswith("unknown"):
                 key += "." + (word if word in _KEYS["object"] else "id")
-            raise where.error(key, first.message)
+            message = first.message
+            if message.startswith(f"{word}: ") and key.endswith(f".{word}"):
+                message = message[len(word) + 2 :]  # the key path names it already
+            raise where.error(key, message)
         items.extend(parsed)
     if "objects_file" in data:
         if not allow_file_references:
