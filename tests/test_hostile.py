@@ -553,3 +553,13 @@ def test_a_streamed_workbook_without_a_declared_range_is_counted_before_loading(
     book.save(tmp_path / "items.xlsx")
     with pytest.raises(InputError, match=r"items.xlsx: a sheet holds 60 rows or more; at most 50"):
         batch.check_xlsx(tmp_path / "items.xlsx")
+
+
+def test_a_site_file_edge_name_over_the_limit_is_refused(tmp_path: Path) -> None:
+    site = tmp_path / "site.toml"
+    site.write_text(
+        f'[[edge]]\nname = "{"n" * 500}"\npoints = [[0, 0], [10, 0]]\nheight = "15 m"\n',
+        encoding="utf-8",
+    )
+    result = invoke("zone", "--site", str(site), "--object", "claw-hammer-16oz")
+    one_error_line(result, "edge[1]: work edge name: 500 characters; at most 120")

@@ -45,6 +45,7 @@ from dropcalc.model.limits import (
     MAX_COORDINATE,
     MAX_EDGE_POINTS,
     MAX_EDGES,
+    MAX_NAME_CHARACTERS,
     MAX_TEXT_FILE_BYTES,
 )
 from dropcalc.physics.constants import WGS84_INVERSE_FLATTENING, WGS84_SEMI_MAJOR_AXIS
@@ -122,6 +123,11 @@ class WorkEdge:
     merged_by: float = field(default=0.0, init=False, compare=False)
 
     def __post_init__(self) -> None:
+        if len(str(self.name)) > MAX_NAME_CHARACTERS:
+            raise InputError(
+                f"work edge name: {len(str(self.name)):,} characters; at most "
+                f"{MAX_NAME_CHARACTERS} (docs/limits.md)"
+            )
         field = f"work edge {self.name!r}"
         points = _points(f"{field} points", self.points)
         if len(points) < 2:
