@@ -489,8 +489,12 @@ def _land_by_table(
     weights_u = _chebyshev_weights(wind_speed, *span_u, nodes_u.size)
     table = grid_k.size
 
-    def read(values: np.ndarray) -> np.ndarray:
-        return np.einsum("ni,ij,nj->n", weights_k, values[:table].reshape(grid_k.shape), weights_u)
+    x, t, v = solved.position[0], solved.time, solved.velocity
+    # Tensor-product interpolation of the four tabled quantities at once: (n, k nodes) @
+    # (k nodes, 4 x U nodes), then summed against the U weights.
+    tables = np.stack([q[:table].reshape(grid_k.shape) for q in (x, t, v[0], v[2])], axis=1)
+    along_k = (weights_k @ tables.reshape(nodes_k.size, -1)).reshape(k.size, 4, nodes_u.size)
+    drift, time, along, down = (along_k * weights_u[:, None, :]).sum(axis=2).T
 
     def turned(
         drift: np.ndarray,
@@ -510,8 +514,7 @@ def _land_by_table(
             np.zeros(n, dtype=np.int64),
         )
 
-    x, t, v = solved.position[0], solved.time, solved.velocity
-    tabled = turned(read(x), read(t), read(v[0]), read(v[2]), wind_toward)
+    tabled = turned(drift, time, along, down, wind_toward)
     direct = turned(x[table:], t[table:], v[0, table:], v[2, table:], wind_toward[:checks])
     return tabled, direct
 
@@ -642,8 +645,8 @@ def envelope_distance(obj: ZoneObject, settings: ZoneSettings) -> float:
 
     Every sampled input is put at the end of its range that carries the object furthest: the
     gust speed blowing straight out from the edge, the highest release speed pointing straight
-    out, the drag area over its whole range (nine log-spaced values, each at the low and high
-    end of the Cd spread), the throw angle over its range, the air density at both ends of its
+    out, the drag area over its whole range widened by the Cd spread and by the air density's
+    spread (a fall depends on both only through their product), the throw angle over its
     range, both ends of the restitution ranges, lower friction and the first contact's tilt
     over its cone (:func:`_farthest_rest`). The drag area and throw angle are searched on a
     grid refined twice around the farthest point (the farthest landing need not be at either
@@ -661,9 +664,11 @@ def envelope_distance(obj: ZoneObject, settings: ZoneSettings) -> float:
     release = settings.release
     if release.mode == "roof-slide" and float(release.friction) > 0:
         release = replace(release, friction=float(release.friction) * (1 - unc.friction_spread))
+    # A fall depends on the air density and the drag area only through k = rho C_d A / (2 m):
+    # the density's range is folded into the drag area's, searched at the mean density.
     log_area = (
-        math.log(obj.drag_area_min * (1 - unc.drag_coefficient_spread)),
-        math.log(obj.drag_area_max * (1 + unc.drag_coefficient_spread)),
+        math.log(obj.drag_area_min * (1 - unc.drag_coefficient_spread) * (1 - unc.density_spread)),
+        math.log(obj.drag_area_max * (1 + unc.drag_coefficient_spread) * (1 + unc.density_spread)),
     )
     throw = release.mode == "throw"
     angle_range = (
@@ -674,7 +679,7 @@ def envelope_distance(obj: ZoneObject, settings: ZoneSettings) -> float:
         if throw
         else (0.0, 0.0)
     )
-    densities = settings.air.density * np.array([1 - unc.density_spread, 1 + unc.density_spread])
+    densities = np.array([settings.air.density])
 
     def farthest(areas_log: np.ndarray, angles: np.ndarray) -> tuple[float, int, int]:
         a_grid, d_grid, t_grid = np.meshgrid(areas_log, densities, angles, indexing="ij")
