@@ -445,7 +445,7 @@ def zone_statement(result: object, system: str = "si") -> str:
         )
     text = (
         f"{pct} of simulated drops of the {d.obj.name} came to rest within "
-        f"{_fmt(rest, 'length', system)} of the release point at the edge, plus a "
+        f"{keep_clear_text(rest, system)} of the release point at the edge, plus a "
         f"{_fmt(s.margin, 'length', system)} margin: keep "
         + keep_clear_text(d.radius, system)
         + " clear."
