@@ -12,7 +12,7 @@ from pathlib import Path
 from typing import Annotated, Any
 
 import typer
-from typer.core import TyperGroup
+from typer.core import TyperGroup, TyperOption
 
 from dropcalc.errors import (
     DropcalcError,
@@ -22,6 +22,17 @@ from dropcalc.errors import (
     require_suffix,
     shorten,
 )
+
+
+def _flag_type(self: TyperOption, ctx: Any) -> str | None:
+    """Help shows a flag as a flag: no value type ("<bool>") beside --json, --help ..."""
+    return None if self.is_flag else _OPTION_TYPE(self, ctx)
+
+
+# typer 0.29 prints the value type of every option in --help, "<bool>" for on/off flags that
+# take no value; flags are shown bare instead.
+_OPTION_TYPE = TyperOption.display_type_rich
+TyperOption.display_type_rich = _flag_type  # type: ignore[method-assign]
 
 
 class _OneLineErrors(TyperGroup):
@@ -67,8 +78,23 @@ app = typer.Typer(
 )
 
 
+def _version(value: bool) -> None:
+    if value:
+        from dropcalc import __version__
+
+        typer.echo(f"dropcalc {__version__}")
+        raise typer.Exit()
+
+
 @app.callback()
-def _root() -> None:
+def _root(
+    version: Annotated[
+        bool,
+        typer.Option(
+            "--version", callback=_version, is_eager=True, help="Print the version and exit."
+        ),
+    ] = False,
+) -> None:
     """Dropped-object physics for work at height."""
 
 
@@ -86,13 +112,6 @@ class ReleaseMode(StrEnum):
     push = "push"
     throw = "throw"
     roof_slide = "roof-slide"
-
-
-class ListRelease(StrEnum):
-    """Release modes for a whole list."""
-
-    drop = "drop"
-    push = "push"
 
 
 class ProfileName(StrEnum):
@@ -492,7 +511,12 @@ def fall(
         _fail(str(exc))
         return
     if as_json:
-        typer.echo(json.dumps(result.to_json(), indent=2, allow_nan=False))
+        from dropcalc.present.text import fall_levels
+
+        out = result.to_json()
+        reached, _ = fall_levels(result)
+        out["levels_reached"] = [level.key for level in reached]
+        typer.echo(json.dumps(out, indent=2, allow_nan=False))
     else:
         typer.echo(printable(render_fall(result, units.value)))
 
@@ -518,11 +542,26 @@ def batch(
     air_density: AirDensityOpt = None,
     latitude: LatitudeOpt = None,
     release: Annotated[
-        ListRelease, typer.Option(help="How the items leave the edge.")
-    ] = ListRelease.drop,
+        ReleaseMode, typer.Option(help="How the items leave the edge.")
+    ] = ReleaseMode.drop,
     release_speed: Annotated[
-        str | None, typer.Option(help='Horizontal speed for push, e.g. "1.5 m/s".')
+        str | None, typer.Option(help='Speed for push, throw or roof-slide, e.g. "1.5 m/s".')
     ] = None,
+    release_angle: Annotated[
+        str | None, typer.Option(help="Throw angle above horizontal (deg).")
+    ] = None,
+    roof_pitch: Annotated[str | None, typer.Option(help="Roof pitch for roof-slide (deg).")] = None,
+    roof_length: Annotated[
+        str | None, typer.Option(help='Slope length slid to the eave, e.g. "4 m".')
+    ] = None,
+    friction: Annotated[
+        float | None,
+        typer.Option(help="Friction coefficient on the roof (roof-slide; default 0.4)."),
+    ] = None,
+    rolling: Annotated[
+        bool,
+        typer.Option("--rolling", help="Roof-slide: the items roll (pipe, ball), not slide."),
+    ] = False,
     edge_azimuth: EdgeAzimuthOpt = 90.0,
     library: LibraryOpt = None,
     policy: Annotated[
@@ -562,7 +601,15 @@ def batch(
             wind=env.wind,
             air=env.air,
             gravity=env.gravity,
-            release=_release(release.value, release_speed),
+            release=_release(
+                release.value,
+                release_speed,
+                release_angle,
+                roof_pitch,
+                roof_length,
+                friction,
+                rolling,
+            ),
             edge_azimuth=edge_azimuth,
             levels=tuple(reference_level(k) for k in keys),
             rules=DEFAULT_RULES if policy is None else load_policy(policy),
@@ -638,7 +685,10 @@ def zone(
         str | None, typer.Option(help="Custom object: drag area Cd·A (or a min,max pair).")
     ] = None,
     ground: Annotated[
-        str, typer.Option(help="Landing surface: concrete, asphalt, compacted-soil, gravel, grass.")
+        str,
+        typer.Option(
+            help="Landing surface: concrete, asphalt, compacted-soil, gravel, grass, soft-soil."
+        ),
     ] = "concrete",
     confidence: Annotated[
         float, typer.Option(help="Share of simulated drops the radius must contain (0.99, 0.999).")
@@ -854,9 +904,15 @@ def _zone_objects(
 
             frame = read_table(items)
             parsed, errors = parse_items(frame, lib, BatchSettings(height=height))
-            if errors:
+            if errors and not parsed:
                 first = errors[0]
                 raise InputError(f"{items.name}: row {first.row}: {first.message}")
+            for error in errors:  # like batch: a bad row is named and left out, not fatal
+                typer.echo(
+                    f"dropcalc: warning: {items.name}: row {error.row}: {error.message} "
+                    "(row left out of the zone)",
+                    err=True,
+                )
             objects.extend(zone_objects_from_items(parsed, lib))
     if mass is not None or drag_area is not None:
         if mass is None or drag_area is None:

@@ -315,15 +315,35 @@ def write_run(path: Path, run: BatchRun) -> None:
 
     def write_xlsx(target: Path) -> None:
         from openpyxl import Workbook
+        from openpyxl.cell import WriteOnlyCell
+        from openpyxl.styles import Alignment, Font
+        from openpyxl.utils import get_column_letter
 
         # The workbook is zipped in memory (compressed, ~100 bytes a row) and then written as
         # plain bytes: a full disk then fails one ordinary write, instead of leaving openpyxl's
         # half-written zip archive to raise again from the garbage collector.
         book = Workbook(write_only=True)
         sheet = book.create_sheet("dropcalc batch")
-        sheet.append(columns)
+        sheet.freeze_panes = "A2"  # the header stays in view
+        formats = [xlsx_number_format(c) for c in columns]
+        for index, column in enumerate(columns, start=1):
+            sheet.column_dimensions[get_column_letter(index)].width = xlsx_column_width(column)
+        bold = Font(bold=True)
+        header = []
+        for column in columns:
+            cell = WriteOnlyCell(sheet, value=column)
+            cell.font = bold
+            cell.alignment = Alignment(wrap_text=True, vertical="top")
+            header.append(cell)
+        sheet.append(header)
         for row in run.rows():
-            sheet.append(cells(row))
+            out = []
+            for value, number_format in zip(cells(row), formats, strict=True):
+                cell = WriteOnlyCell(sheet, value=value)
+                if number_format and isinstance(value, int | float) and not isinstance(value, bool):
+                    cell.number_format = number_format
+                out.append(cell)
+            sheet.append(out)
         buffer = io.BytesIO()
         book.save(buffer)
         target.write_bytes(buffer.getvalue())
@@ -334,6 +354,38 @@ def write_run(path: Path, run: BatchRun) -> None:
 
     writer = {".csv": write_csv, ".xlsx": write_xlsx, ".json": write_json}[suffix]
     write_atomic(path, writer)
+
+
+#: Number formats of the XLSX columns by the unit suffix of their name (the value keeps its
+#: full precision; the format only sets what the sheet shows).
+_XLSX_FORMATS = (
+    ("_j_cm2", "0.00"),
+    ("_m2", "0.00000"),
+    ("_m_s", "0.00"),
+    ("_kg", "0.000"),
+    ("_j", "0.0"),
+    ("_m", "0.00"),
+    ("_s", "0.00"),
+)
+
+
+def xlsx_number_format(column: str) -> str | None:
+    """The XLSX number format of a batch column ("0.00" for metres), None for text columns."""
+    if column in ("row", "quantity"):
+        return "0"
+    for suffix, number_format in _XLSX_FORMATS:
+        if column.endswith(suffix):
+            return number_format
+    return None
+
+
+def xlsx_column_width(column: str) -> float:
+    """Column width in characters: text columns wide, number columns to fit their header."""
+    if column in ("label", "name", "warnings", "control", "levels_exceeded", "error"):
+        return 40.0
+    if column == "id":
+        return 28.0
+    return float(min(max(len(column) * 0.75, 9.0), 22.0))
 
 
 def stream_json(handle: io.TextIOBase | Any, run: BatchRun) -> None:

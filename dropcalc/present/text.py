@@ -181,8 +181,69 @@ def render_fall(result: FallResult, system: str = "si") -> str:
             f"  {label:<{width}}" + "   ".join(f"{c:<{col_width}}" for c in cells).rstrip()
         )
     lines.append("")
+    reached, below = fall_levels(result)
+    if reached or below:
+        lines.extend(textwrap.wrap(
+            "Reference levels (test energies and measurements, not safe limits), at the "
+            "highest impact energy above: "
+            + ("reached " + "; ".join(_level_text(lv, system) for lv in reached) if reached
+               else "none reached")
+            + ("" if not below else "; below " + "; ".join(_level_text(lv, system) for lv in below))
+            + ".", 90))  # fmt: skip
+        lines.append("")
     lines.extend(textwrap.wrap("Caution: " + CAUTION_SHORT, 90))
     return "\n".join(lines)
+
+
+def _level_text(level: object, system: str) -> str:
+    kind = "energy" if level.quantity == "energy" else "energy_per_area"
+    return f"{level.label} ({_fmt(level.value, kind, system)})"
+
+
+def fall_levels(result: FallResult) -> tuple[list, list]:
+    """The default reference levels reached and not reached by a fall's highest impact.
+
+    The highest impact energy (and energy per contact area) over the given wind and its gust,
+    at the attitude of the highest energy, compared with each level of
+    :data:`dropcalc.model.reference_levels.DEFAULT_LEVEL_KEYS`, as ``batch`` does.
+    """
+    from dropcalc.model.reference_levels import DEFAULT_LEVEL_KEYS, reference_level
+
+    energies, per_area = [], []
+    for wind_case in (result.given, result.gust):
+        if wind_case is None or not bool(wind_case.impact.landed[0]):
+            continue
+        energies.append(float(np.asarray(wind_case.impact.kinetic_energy).ravel()[0]))
+        epa = wind_case.impact.energy_per_area
+        if epa is not None:
+            value = float(np.asarray(epa).ravel()[0])
+            if math.isfinite(value):
+                per_area.append(value)
+    if not energies:
+        return [], []
+    reached, below = [], []
+    for key in DEFAULT_LEVEL_KEYS:
+        level = reference_level(key)
+        if level.quantity == "energy":
+            (reached if max(energies) >= level.value else below).append(level)
+        elif per_area:
+            (reached if max(per_area) >= level.value else below).append(level)
+    return reached, below
+
+
+def item_name(row: dict) -> str:
+    """An item's name in tables: its label, else its library id or name, else its row number."""
+    return str(row.get("label") or row.get("id") or row.get("name") or f"row {row.get('row')}")
+
+
+def _sig3(value: float) -> str:
+    """Three significant figures without an exponent (1190.4 -> "1190", 0.0123 -> "0.0123")."""
+    if not math.isfinite(value):
+        return "—"
+    if value == 0:
+        return "0"
+    places = 2 - math.floor(math.log10(abs(value)))
+    return f"{round(value, places):.{max(places, 0)}f}"
 
 
 def _short_control(text: str) -> str:
@@ -220,13 +281,13 @@ def render_batch(
         table.append(
             (
                 str(r["row"]),
-                str(r.get("label") or r.get("id"))[:28],
+                item_name(r)[:28],
                 _fmt(r["mass_kg"], "mass", system),
                 "—" if energy is None else _fmt(energy, "energy", system),
                 "—"
                 if r.get("impact_speed_max_m_s") is None
                 else _fmt(r["impact_speed_max_m_s"], "speed", system),
-                "—" if epa is None else f"{epa:.3g}",
+                "—" if epa is None else _sig3(epa),
                 "—" if r.get("drift_max_m") is None else _fmt(r["drift_max_m"], "length", system),
                 _short_control(str(r.get("control", ""))),
             )
@@ -246,7 +307,7 @@ def render_batch(
     if good:
         worst = good[0]
         lines.append(
-            f"{n_good} item(s) solved; highest energy: {worst.get('label') or worst.get('id')} "
+            f"{n_good} item(s) solved; highest energy: {item_name(worst)} "
             f"(row {worst['row']}), {_fmt(worst['impact_energy_max_j'] or 0, 'energy', system)} "
             "at its smallest drag area."
         )
