@@ -14,8 +14,9 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parents[1]
 REFERENCES = ROOT / "docs" / "references.md"
 
-#: A citation key: capitals, digits and dots, with at least one hyphen ("HOLMES-2004").
-KEY = re.compile(r"\[([A-Z][A-Z0-9.]*(?:-[A-Z0-9.]+)+)\]")
+#: A citation key: capitals, digits and dots, two or more before the first hyphen
+#: ("HOLMES-2004"; a regex class such as [A-Z] is not one).
+KEY = re.compile(r"\[([A-Z][A-Z0-9.]+(?:-[A-Z0-9.]+)+)\]")
 #: An entry of docs/references.md: a list item starting with the bold key.
 ENTRY = re.compile(r"^- \*\*\[([^\]]+)\]\*\*", re.MULTILINE)
 
