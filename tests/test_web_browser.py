@@ -359,3 +359,20 @@ def test_an_input_error_is_shown_beside_its_field(server: str, browser: Any) -> 
     note = height.find_element(By.XPATH, "./following-sibling::span[@class='field-error']")
     assert 'work_area[1].edge[1].height: could not read "twelve" as a length' in note.text
     shot(driver, "09-error-beside-the-field")
+
+
+def test_the_demo_job_fills_the_form_and_shows_it_is_computing(server: str, browser: Any) -> None:
+    driver = browser
+    driver.get(server)
+    driver.find_element(By.ID, "load-demo").click()
+    WebDriverWait(driver, 30).until(
+        lambda d: field(d, "job.title").get_attribute("value").startswith("Re-roofing")
+    )
+    assert field(driver, "wind.speed").get_attribute("value") == "8 m/s"
+    assert (
+        field(driver, "work_areas.1.edges.0.points").get_attribute("value") == "43.5, -1; 43.5, 17"
+    )
+    assert len(driver.find_elements(By.CSS_SELECTOR, "#object-rows tr[data-field]")) == 14
+    WebDriverWait(driver, 30).until(lambda d: state(d) == "computing")
+    assert driver.find_element(By.ID, "status").text == "Computing…"
+    shot(driver, "10-demo-computing")

@@ -240,6 +240,7 @@ function renderObjects() {
       "data-field": `objects.${k}.quantity`, class: "count", "aria-label": "Count",
     });
     count.value = obj.quantity;
+    count.placeholder = "1";
     const remove = el("button", { type: "button", class: "danger-quiet" }, "Remove");
     remove.addEventListener("click", () => { form.objects.splice(k, 1); renderObjects(); changed(); });
     const cells = [el("td"), what, el("td", { class: "num" }), el("td")];
@@ -387,7 +388,10 @@ function renderPlan() {
   const labels = svg("g", { class: "labels" });
   const fontSize = span / 45;
   const label = (x, y, text, cls) => {
-    const t = svg("text", { x, y: -y, class: cls, "font-size": fontSize });
+    // Anchored so that a label near a side of the view stays inside it.
+    const middle = (b.x0 + b.x1) / 2, quarter = (b.x1 - b.x0) / 4;
+    const anchor = x > middle + quarter ? "end" : x < middle - quarter ? "start" : "middle";
+    const t = svg("text", { x, y: -y, class: cls, "font-size": fontSize, "text-anchor": anchor });
     t.textContent = text;
     labels.append(t);
   };
@@ -411,8 +415,9 @@ function renderPlan() {
       world.append(svg("polyline", {
         points: edge.points.map((p) => p.join(",")).join(" "), class: `edge ${areaClass(a)}`,
       }));
-      const [x, y] = edge.points[0];
-      label(x, y + fontSize * 0.6, `${edge.name || "edge"}${edge.height ? " · " + edge.height : ""}`, "edge-label");
+      const [[xa, ya], [xb, yb]] = [edge.points[0], edge.points[1] || edge.points[0]];
+      label((xa + xb) / 2, (ya + yb) / 2 + fontSize * 0.6,
+        `${edge.name || "edge"}${edge.height ? " · " + edge.height : ""}`, "edge-label");
     });
   });
   if (drawing) {
