@@ -698,14 +698,13 @@ def zone(
         float, typer.Option(help="Target standard error of the radius, relative (0.01 = 1 %).")
     ] = 0.01,
     seed: Annotated[int, typer.Option(help="Random seed (same seed, same answer).")] = 1,
-    contact_tilt: Annotated[
+    ground_slope: Annotated[
         str,
         typer.Option(
-            help="Largest tilt of the contact at the first bounce, which sends a dropped "
-            'object sideways (default 15 deg, a third for round items that roll; "0 deg" is '
-            "a flat, mirror-like bounce)."
+            help='Slope of the landing ground, e.g. "5 deg"; taken to fall away from the '
+            "edge in the direction an object travels (default level)."
         ),
-    ] = "15 deg",
+    ] = "0 deg",
     barricade: Annotated[
         str | None,
         typer.Option(
@@ -747,7 +746,6 @@ def zone(
     """Exclusion distance from the work edge: Monte Carlo at a confidence, and the worst case."""
     try:
         from dropcalc.analysis.zone import (
-            Uncertainty,
             ZoneSettings,
             compute_zone,
             greatest_height,
@@ -806,7 +804,7 @@ def zone(
             margin=float(_q(margin, "length", "--margin")),
             relative_error=precision,
             seed=seed,
-            uncertainty=Uncertainty(contact_tilt=_contact_tilt(contact_tilt, "--contact-tilt")),
+            ground_slope=_ground_slope(ground_slope, "--ground-slope"),
         )
         site_result = None
         if plan is not None:
@@ -1113,12 +1111,12 @@ def serve(
         pass
 
 
-def _contact_tilt(text: str, field: str) -> float:
-    """The contact tilt in degrees, in its allowed range (raises InputError naming ``field``)."""
+def _ground_slope(text: str, field: str) -> float:
+    """The ground slope in degrees, in its allowed range (raises InputError naming ``field``)."""
     from dropcalc.errors import require_range
-    from dropcalc.physics.scatter import CONTACT_TILT_RANGE
+    from dropcalc.physics.scatter import SLOPE_RANGE
 
-    return require_range(field, _q(text, "angle", field), *CONTACT_TILT_RANGE, "deg")
+    return require_range(field, _q(text, "angle", field), *SLOPE_RANGE, "deg")
 
 
 def _refuse_to_overwrite_edits(out: Path, source: Path, names: tuple[str, ...]) -> None:

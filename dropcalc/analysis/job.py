@@ -281,7 +281,7 @@ def run_job(scenario: Scenario, progress: Callable[[int, int], None] | None = No
 
 def zone_settings(scenario: Scenario, area: Any) -> Any:
     """The zone settings of one work area: its highest edge and release, the scenario's rest."""
-    from dropcalc.analysis.zone import Uncertainty, ZoneSettings
+    from dropcalc.analysis.zone import ZoneSettings
 
     return ZoneSettings(
         height=max(edge.height for edge in area.site.edges),
@@ -290,11 +290,11 @@ def zone_settings(scenario: Scenario, area: Any) -> Any:
         air=scenario.air,
         gravity=scenario.gravity,
         ground=scenario.ground,
+        ground_slope=scenario.ground_slope,
         confidence=scenario.confidence,
         margin=scenario.margin,
         relative_error=scenario.precision,
         seed=scenario.seed,
-        uncertainty=Uncertainty(contact_tilt=scenario.contact_tilt),
     )
 
 

@@ -31,20 +31,10 @@ import numpy as np
 from dropcalc.analysis.fall import CARRIED_AWAY_DISTANCE, wind_field
 from dropcalc.errors import InputError, require_range, to_float
 from dropcalc.model.limits import MAX_RELEASE_HEIGHT, MIN_RELEASE_HEIGHT
+from dropcalc.physics import contact
 from dropcalc.physics.atmosphere import AirState, air_state
 from dropcalc.physics.release import Release, initial_velocity
-from dropcalc.physics.scatter import (
-    CONTACT_TILT_MAX,
-    CONTACT_TILT_RANGE,
-    ROUND_TILT_FRACTION,
-    Surface,
-    first_rebound,
-    fragment_allowance,
-    sample_rolling_resistance,
-    sample_surface,
-    scatter_distance,
-    surface,
-)
+from dropcalc.physics.scatter import SLOPE_RANGE, Surface, surface
 from dropcalc.physics.trajectory import FallSolution, solve_falls
 from dropcalc.physics.wind import WindSpec, turbulence_intensity, wind_spec
 
@@ -96,7 +86,8 @@ class ZoneObject:
     object_id : str
         Library id, or "" for a custom object.
     fragile : bool
-        May break on impact: the fragment allowance is added.
+        May break on impact: above its material's breaking speed it throws fragments instead
+        of bouncing whole.
     rolls : bool
         Round item that rolls rather than slides after landing.
     glides : bool
@@ -104,6 +95,14 @@ class ZoneObject:
     plate : tuple of float or None
         (length, width, thickness) [m] of a sheet flown by the plate model
         (:mod:`dropcalc.analysis.plate_flight`); None for a point mass.
+    shape : str
+        Shape class for the contact geometry (``shapes.SHAPES``); "" for a custom object known
+        only by its drag area (a cube, :func:`dropcalc.physics.contact.cube_body`).
+    dimensions : tuple of (str, float)
+        The shape's dimensions by name. [m]
+    material : str
+        Material class (:data:`dropcalc.physics.contact.MATERIALS`); "" takes
+        :data:`~dropcalc.physics.contact.DEFAULT_MATERIAL`.
     """
 
     name: str
@@ -116,11 +115,32 @@ class ZoneObject:
     rolls: bool = False
     glides: bool = False
     plate: tuple[float, float, float] | None = None
+    shape: str = ""
+    dimensions: tuple[tuple[str, float], ...] = ()
+    material: str = ""
 
     def __post_init__(self) -> None:
         from dropcalc.analysis.fall import check_object
 
         check_object(self.mass, self.drag_area_min, 1.0, None, self.drag_area_max)
+        contact.material(self.material or contact.DEFAULT_MATERIAL)  # names a bad class
+
+    @property
+    def body(self) -> contact.Body:
+        """Contact geometry: the shape class, or a cube for a custom object."""
+        if self.shape:
+            return contact.body(self.shape, dict(self.dimensions))
+        return contact.cube_body(self.drag_area_max)
+
+    @property
+    def material_class(self) -> contact.Material:
+        """The material class (the default for a custom object)."""
+        return contact.material(self.material or contact.DEFAULT_MATERIAL)
+
+    @property
+    def break_speed(self) -> float | None:
+        """Impact speed above which the object breaks [m/s]; None if it does not."""
+        return self.material_class.break_speed if self.fragile else None
 
 
 @dataclass(frozen=True)
@@ -153,12 +173,9 @@ class Uncertainty:
     density_spread : float
         Relative half-width of the uniform spread of air density during the work (a +-15 K
         day is +-5 %, from the ideal gas law). [-]
-    contact_tilt : float
-        Largest tilt of the effective contact normal at the first ground contact
-        (:data:`~dropcalc.physics.scatter.CONTACT_TILT_MAX`, an assumption): the normal points
-        anywhere in the cone of this half-angle about the vertical with equal probability
-        (cos of the tilt uniform), in a uniformly random direction. Round bodies that roll
-        take :data:`~dropcalc.physics.scatter.ROUND_TILT_FRACTION` of it. [deg]
+    The after-landing inputs are drawn uniformly within their ranges (the material's
+    restitution, the ground's factor, friction and rolling resistance, the fragment launch
+    speed and angle) and the orientation at the first contact uniformly over all rotations.
     """
 
     turbulence_intensity: float | None = None
@@ -169,7 +186,6 @@ class Uncertainty:
     friction_spread: float = 0.2
     drag_coefficient_spread: float = 0.10
     density_spread: float = 0.05
-    contact_tilt: float = CONTACT_TILT_MAX
 
     def __post_init__(self) -> None:
         checks = (
@@ -180,7 +196,6 @@ class Uncertainty:
             ("friction_spread", self.friction_spread, 0.0, 0.9),
             ("drag_coefficient_spread", self.drag_coefficient_spread, 0.0, 0.5),
             ("density_spread", self.density_spread, 0.0, 0.3),
-            ("contact_tilt", self.contact_tilt, *CONTACT_TILT_RANGE),
         )
         for name, value, low, high in checks:
             value = to_float(name, value)
@@ -205,6 +220,7 @@ class ZoneSettings:
     gravity: float = 9.80665
     edge_azimuth: float = 90.0
     ground: Surface = field(default_factory=lambda: surface("concrete"))
+    ground_slope: float = 0.0
     confidence: float = 0.99
     margin: float = DEFAULT_MARGIN
     relative_error: float = DEFAULT_RELATIVE_ERROR
@@ -220,6 +236,7 @@ class ZoneSettings:
                 f"got {height:g} m"
             )
         require_range("confidence", self.confidence, 0.5, 0.9999, "")
+        require_range("ground_slope", self.ground_slope, *SLOPE_RANGE, "deg")
         require_range("margin", self.margin, 0.0, 100.0, "m")
         from dropcalc.analysis.fall import GRAVITY_RANGE
 
@@ -249,6 +266,36 @@ class ObjectZone:
     worst_case: float  # envelope rest distance + margin [m]
     carried_away: float  # share of samples still airborne at CARRIED_AWAY [-]
     offsets: np.ndarray  # (2, n) rest positions relative to the release point [m]
+    rolled_away: float = 0.0  # share that slid or rolled away down the slope, never stopping
+    sensitivity: tuple[Sensitivity, ...] = ()  # after-landing inputs at their ends
+
+
+@dataclass(frozen=True)
+class Sensitivity:
+    """The radius with one after-landing input held at each end of its range.
+
+    Attributes
+    ----------
+    parameter : str
+        ``restitution``, ``friction``, ``rolling_resistance``, ``fragment_speed`` or ``all``
+        (every input at its end that gives the shorter, then the longer, travel).
+    low, high : float
+        The input's two ends (``all``: NaN). [-]
+    radius_low, radius_high : float
+        Radius (quantile plus margin) with the input at its low and at its high end, the other
+        inputs drawn as usual, over the same landings. [m]
+    """
+
+    parameter: str
+    low: float
+    high: float
+    radius_low: float
+    radius_high: float
+
+
+#: Landings (of the first round) re-used for the sensitivity of the radius to the
+#: after-landing inputs: enough for the 99 % quantile to a few per cent.
+SENSITIVITY_SAMPLES = 5_000
 
 
 @dataclass(frozen=True)
@@ -339,6 +386,38 @@ def _release_velocities(settings: ZoneSettings, n: int, rng: np.random.Generator
     return velocity.reshape(3, -1) * np.ones((1, n))
 
 
+@dataclass(frozen=True)
+class LandingDraw:
+    """After-landing inputs of the samples (arrays (n,); rotation (n, 3, 3))."""
+
+    restitution: np.ndarray  # normal restitution on this ground at the reference speed [-]
+    friction: np.ndarray  # [-]
+    rolling_resistance: np.ndarray  # [-]
+    rotation: np.ndarray  # orientation at the first contact
+    fragment_speed: np.ndarray  # fragment launch speed over impact speed [-]
+    fragment_angle: np.ndarray  # fragment launch elevation [deg]
+    fragment_azimuth: np.ndarray  # fragment compass direction [rad]
+
+    def take(self, lanes: np.ndarray) -> LandingDraw:
+        """The draw for the given sample indices."""
+        return LandingDraw(*(getattr(self, name)[lanes] for name in self.__dataclass_fields__))
+
+
+def draw_landing(obj: ZoneObject, ground: Surface, n: int, rng: np.random.Generator) -> LandingDraw:
+    """Draw the after-landing inputs of n drops: each uniform within its range."""
+    material = obj.material_class
+    restitution = rng.uniform(*material.restitution, n) * rng.uniform(*ground.restitution_factor, n)
+    return LandingDraw(
+        restitution=restitution,
+        friction=rng.uniform(*ground.friction, n),
+        rolling_resistance=rng.uniform(*ground.rolling_resistance, n),
+        rotation=contact.random_orientations(n, rng),
+        fragment_speed=rng.uniform(*contact.FRAGMENT_SPEED_FRACTION, n),
+        fragment_angle=rng.uniform(*contact.FRAGMENT_ANGLE, n),
+        fragment_azimuth=rng.uniform(0.0, 2.0 * np.pi, n),
+    )
+
+
 def _rest_positions(
     obj_mass: np.ndarray,
     drag_area: np.ndarray,
@@ -346,42 +425,34 @@ def _rest_positions(
     wind_speed: np.ndarray,
     wind_toward: np.ndarray,
     velocity0: np.ndarray,
-    e_n: np.ndarray,
-    e_t: np.ndarray,
-    friction: np.ndarray,
-    rolling_resistance: np.ndarray | None,
-    tilt: np.ndarray,
-    tilt_azimuth: np.ndarray,
+    draw: LandingDraw,
     obj: ZoneObject,
     settings: ZoneSettings,
-) -> tuple[np.ndarray, np.ndarray, np.ndarray, float]:
-    """Solve falls and add the scatter; also say how far the fall table may be off.
+) -> tuple[np.ndarray, np.ndarray, np.ndarray, float, FallSolution]:
+    """Solve falls and add the travel after landing; also say how far the fall table may be off.
 
-    Returns rest offsets (2, n), air drift (n), landed (n), and the largest error of a rest
-    distance read from the fall table (0 when solved directly) [m].
+    Returns rest offsets (2, n), air drift (n), landed (n), the largest error of a rest
+    distance read from the fall table (0 when solved directly) [m], and the landings.
 
     Straight drops of many samples read their landings from a table (:func:`_land_by_table`);
     the first :data:`FALL_TABLE_CHECKS` of them are also solved directly, those direct results
     are kept, and the largest difference of their rest distances from the table's is returned
     so that the caller can count it in the reported error.
     """
-    scatter = (e_n, e_t, friction, rolling_resistance, tilt, tilt_azimuth)
     table = None
     if obj_mass.size >= FALL_TABLE_MIN_SAMPLES and not np.any(velocity0):
         k = density * drag_area / (2.0 * obj_mass)
         table = _land_by_table(k, wind_speed, wind_toward, settings)
     if table is None:
         solution = _land(obj_mass, drag_area, density, wind_speed, wind_toward, velocity0, settings)
-        return (*_rest_after_landing(solution, *scatter, obj, settings), 0.0)
+        return (*_rest_after_landing(solution, draw, obj, settings), 0.0, solution)
     tabled, direct = table
     check = np.arange(direct.time.size)
-    rest, drift, landed = _rest_after_landing(tabled, *scatter, obj, settings)
-    exact = _rest_after_landing(
-        direct, *(None if a is None else a[check] for a in scatter), obj, settings
-    )
+    rest, drift, landed = _rest_after_landing(tabled, draw, obj, settings)
+    exact = _rest_after_landing(direct, draw.take(check), obj, settings)
     error = float(np.max(np.abs(np.hypot(*exact[0]) - np.hypot(*rest[:, check]))))
     rest[:, check], drift[check], landed[check] = exact
-    return rest, drift, landed, error
+    return rest, drift, landed, error, tabled
 
 
 def _land(
@@ -520,41 +591,40 @@ def _land_by_table(
 
 
 def _rest_after_landing(
-    solution: FallSolution,
-    e_n: np.ndarray,
-    e_t: np.ndarray,
-    friction: np.ndarray,
-    rolling_resistance: np.ndarray | None,
-    tilt: np.ndarray,
-    tilt_azimuth: np.ndarray,
-    obj: ZoneObject,
-    settings: ZoneSettings,
+    solution: FallSolution, draw: LandingDraw, obj: ZoneObject, settings: ZoneSettings
 ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
-    """Add the scatter after the first contact: rest offsets (2, n), air drift (n), landed (n).
+    """Add the travel after the first contact: rest offsets (2, n), air drift (n), landed (n).
 
-    The first contact is on a tilted effective normal (:func:`first_rebound`); the hops and the
-    slide then go on along the rebound's horizontal direction.
+    The first contact is a planar rigid-body impact at the drawn orientation, then hops, a
+    slide or a roll, or fragments for an object that breaks
+    (:func:`dropcalc.physics.contact.after_landing`). A body that slides or rolls away down a
+    slope without stopping counts as carried away.
     """
     landing = solution.position[:2]
     drift = np.hypot(landing[0], landing[1])
-    v = solution.velocity
-    horizontal = np.where(solution.landed, np.hypot(v[0], v[1]), 0.0)
-    vertical = np.where(solution.landed, np.maximum(-v[2], 0.0), 0.0)
-    rebound = first_rebound(vertical, horizontal, tilt, tilt_azimuth, e_n, e_t)
-    extra = scatter_distance(
-        rebound.vertical_speed, rebound.horizontal_speed, e_n, e_t, friction,
-        gravity=settings.gravity, rolls=obj.rolls,
-        rolling_resistance=rolling_resistance if obj.rolls else None,
-    ).total  # fmt: skip
-    if obj.fragile:  # fragments fly from the impact speed itself, not the flat equivalent
-        extra = extra + fragment_allowance(np.hypot(vertical, horizontal), gravity=settings.gravity)
-    # The rebound leaves along the horizontal impact direction (outward when the impact is
-    # vertical) turned by the tilt.
+    velocity = np.where(solution.landed, solution.velocity, 0.0)
+    # A straight drop in still air has no horizontal direction: the planar impact then picks
+    # its own (the lever arm's); the edge's outward direction stands in where none exists.
     out = math.radians(settings.edge_azimuth)
-    with np.errstate(invalid="ignore", divide="ignore"):
-        base = np.where(horizontal > 1e-9, np.arctan2(v[0], v[1]), out)  # compass, from north
-    heading = base - rebound.turn  # the turn is counter-clockwise seen from above
-    rest = landing + extra * np.vstack([np.sin(heading), np.cos(heading)])
+    still = np.hypot(velocity[0], velocity[1]) <= 1e-12
+    velocity = velocity.copy()
+    velocity[0] = np.where(still, 0.0, velocity[0])
+    travel = contact.after_landing(
+        velocity,
+        obj.body,
+        contact.Ground(
+            draw.restitution, draw.friction, draw.rolling_resistance, settings.ground_slope
+        ),
+        draw.rotation,
+        gravity=settings.gravity,
+        break_speed=obj.break_speed,
+        fragment_speed=draw.fragment_speed,
+        fragment_angle=draw.fragment_angle,
+        fragment_azimuth=draw.fragment_azimuth,
+        heading=np.vstack([np.full(still.size, math.sin(out)), np.full(still.size, math.cos(out))]),
+        rolls=obj.rolls,
+    )
+    rest = landing + travel.offset  # infinite where a body never stops on the slope
     rest[:, ~solution.landed] = np.nan
     drift = np.where(solution.landed, drift, np.nan)  # abandoned samples did not land
     return rest, drift, solution.landed
@@ -569,8 +639,8 @@ def sample_object(
 
 def _sample_object(
     obj: ZoneObject, settings: ZoneSettings, n: int, rng: np.random.Generator
-) -> tuple[np.ndarray, np.ndarray, np.ndarray, float]:
-    """:func:`sample_object`, and the fall table's largest rest-distance error [m]."""
+) -> tuple[np.ndarray, np.ndarray, np.ndarray, float, FallSolution, LandingDraw]:
+    """:func:`sample_object` with the fall table's error [m], the landings and the draw."""
     unc = settings.uncertainty
     mean, gust = _mean_and_gust(settings)
     i_v = _turbulence(settings)
@@ -591,13 +661,8 @@ def _sample_object(
         1 - unc.drag_coefficient_spread, 1 + unc.drag_coefficient_spread, n
     )
     density = settings.air.density * rng.uniform(1 - unc.density_spread, 1 + unc.density_spread, n)
-    e_n, e_t, friction = sample_surface(settings.ground, n, rng)
-    rolling = sample_rolling_resistance(settings.ground, n, rng) if obj.rolls else None
     velocity0 = _release_velocities(settings, n, rng)
-    # Contact normal uniform over the cone of half-angle contact_tilt: cos(tilt) uniform.
-    lowest_cos = math.cos(math.radians(_tilt_max(obj, settings)))
-    tilt = np.degrees(np.arccos(np.clip(rng.uniform(lowest_cos, 1.0, n), -1.0, 1.0)))
-    tilt_azimuth = rng.uniform(0.0, 360.0, n)
+    draw = draw_landing(obj, settings.ground, n, rng)
     if obj.plate is not None:  # a sheet: its attitude and spin are sampled too
         from dropcalc.analysis.plate_flight import land_plates, sample_attitudes
 
@@ -608,14 +673,73 @@ def _sample_object(
             obj.plate, obj.mass, density * cd_factor, wind_speed, toward, velocity0, settings,
             *attitude,
         )  # fmt: skip
-        rest = _rest_after_landing(
-            solution, e_n, e_t, friction, rolling, tilt, tilt_azimuth, obj, settings
-        )
-        return (*rest, 0.0)  # solved directly: no fall-table error
-    return _rest_positions(
-        np.full(n, obj.mass), drag_area, density, wind_speed, toward, velocity0, e_n, e_t,
-        friction, rolling, tilt, tilt_azimuth, obj, settings,
+        return (*_rest_after_landing(solution, draw, obj, settings), 0.0, solution, draw)
+    return (
+        *_rest_positions(
+            np.full(n, obj.mass), drag_area, density, wind_speed, toward, velocity0, draw, obj,
+            settings,
+        ),
+        draw,
     )  # fmt: skip
+
+
+def _first_lanes(solution: FallSolution, m: int) -> FallSolution:
+    """The first m landings of a solution."""
+    return FallSolution(
+        solution.time[:m], solution.position[:, :m], solution.velocity[:, :m],
+        solution.landed[:m], solution.steps[:m],
+    )  # fmt: skip
+
+
+def _sensitivity(
+    obj: ZoneObject, settings: ZoneSettings, solution: FallSolution, draw: LandingDraw
+) -> tuple[Sensitivity, ...]:
+    """The radius with each after-landing input held at the ends of its range.
+
+    The same landings and the same other draws are used for every row (common random
+    numbers), so the rows differ only by the input held.
+    """
+    from dataclasses import replace
+
+    ground, material = settings.ground, obj.material_class
+    m = solution.time.size
+    restitution = (
+        material.restitution[0] * ground.restitution_factor[0],
+        material.restitution[1] * ground.restitution_factor[1],
+    )
+    # (name, field of the draw, low end, high end, the end that carries farther is high?)
+    inputs = [
+        ("restitution", "restitution", *restitution),
+        ("friction", "friction", *ground.friction),
+    ]
+    if obj.rolls:
+        inputs.append(("rolling_resistance", "rolling_resistance", *ground.rolling_resistance))
+    if obj.break_speed is not None:
+        inputs.append(("fragment_speed", "fragment_speed", *contact.FRAGMENT_SPEED_FRACTION))
+
+    def radius(held: LandingDraw) -> float:
+        rest, _, _ = _rest_after_landing(solution, held, obj, settings)
+        q, _ = quantile_with_error(np.hypot(rest[0], rest[1]), settings.confidence)
+        return q + settings.margin
+
+    rows = []
+    for name, field_name, low, high in inputs:
+        at = [radius(replace(draw, **{field_name: np.full(m, end)})) for end in (low, high)]
+        rows.append(Sensitivity(name, float(low), float(high), at[0], at[1]))
+    # Every input at the end that gives the shorter travel, then the longer: low restitution,
+    # high friction and rolling resistance, slow fragments, and the other way round.
+    ends = {
+        "restitution": (restitution[0], restitution[1]),
+        "friction": (ground.friction[1], ground.friction[0]),
+        "rolling_resistance": (ground.rolling_resistance[1], ground.rolling_resistance[0]),
+        "fragment_speed": contact.FRAGMENT_SPEED_FRACTION,
+    }
+    both = [
+        radius(replace(draw, **{key: np.full(m, pair[k]) for key, pair in ends.items()}))
+        for k in (0, 1)
+    ]
+    rows.append(Sensitivity("all", math.nan, math.nan, both[0], both[1]))
+    return tuple(rows)
 
 
 def quantile_with_error(distances: np.ndarray, p: float) -> tuple[float, float]:
@@ -700,7 +824,15 @@ def envelope_distance(obj: ZoneObject, settings: ZoneSettings) -> float:
         )  # fmt: skip
         if not np.all(solution.landed):
             return math.inf, 0, 0
-        distance = _farthest_rest(solution, obj, settings).reshape(a_grid.shape)
+        distance = _farthest_rest(solution, obj, settings)
+        lane = int(np.argmax(distance))
+        leaders.append(
+            FallSolution(
+                solution.time[[lane]], solution.position[:, [lane]],
+                solution.velocity[:, [lane]], solution.landed[[lane]], solution.steps[[lane]],
+            )
+        )  # fmt: skip
+        distance = distance.reshape(a_grid.shape)
         i, _, j = np.unravel_index(int(np.argmax(distance)), distance.shape)
         return float(distance.max()), int(i), int(j)
 
@@ -710,6 +842,7 @@ def envelope_distance(obj: ZoneObject, settings: ZoneSettings) -> float:
     a_lo, a_hi = log_area
     t_lo, t_hi = angle_range
     best = -math.inf
+    leaders: list[FallSolution] = []  # the farthest landing of each round
     points = 17
     for _ in range(3):
         areas_log = np.linspace(a_lo, a_hi, points)
@@ -727,65 +860,99 @@ def envelope_distance(obj: ZoneObject, settings: ZoneSettings) -> float:
         if throw:
             t_lo = max(angle_range[0], angles[j] - angle_step)
             t_hi = min(angle_range[1], angles[j] + angle_step)
+    # The farthest landings again with the fine orientation grid.
+    for leader in leaders:
+        best = max(best, float(_farthest_rest(leader, obj, settings, fine=True)[0]))
     return best + ENVELOPE_SEARCH_ALLOWANCE
 
 
-def _tilt_max(obj: ZoneObject, settings: ZoneSettings) -> float:
-    """Largest contact tilt of this object [deg]: a fraction of it for round bodies."""
-    tilt = settings.uncertainty.contact_tilt
-    return tilt * ROUND_TILT_FRACTION if obj.rolls else tilt
+#: Orientation grid of the envelope's search at the first contact: down directions (a
+#: Fibonacci lattice on the sphere) x turns about the vertical, coarse for every candidate
+#: landing and fine for the farthest one.
+ORIENTATION_GRID = ((32, 8), (400, 24))
+#: Fragment launch angles searched by the envelope (over :data:`contact.FRAGMENT_ANGLE`).
+FRAGMENT_ANGLE_POINTS = 31
 
 
-#: Grid of the envelope's search over the contact tilt: tilt values from 0 to the largest
-#: and azimuths around the circle, then two finer grids around the farthest point.
-TILT_GRID = (5, 36)
+def _orientation_grid(downs: int, turns: int) -> np.ndarray:
+    """Rotation matrices (downs x turns, 3, 3) spread over all rotations."""
+    k = np.arange(downs) + 0.5
+    polar = np.arccos(1.0 - 2.0 * k / downs)
+    azimuth = np.pi * (1.0 + math.sqrt(5.0)) * k
+    down = np.vstack(
+        [np.sin(polar) * np.cos(azimuth), np.sin(polar) * np.sin(azimuth), np.cos(polar)]
+    )
+    spin = np.linspace(0.0, 2.0 * np.pi, turns, endpoint=False)
+    return contact.orientations(np.repeat(down, turns, axis=1), np.tile(spin, downs))
 
 
-def _farthest_rest(solution: FallSolution, obj: ZoneObject, settings: ZoneSettings) -> np.ndarray:
-    """Farthest rest distance [m] of each landing over the contact tilt and the ground's ranges.
+def _farthest_rest(
+    solution: FallSolution, obj: ZoneObject, settings: ZoneSettings, *, fine: bool = False
+) -> np.ndarray:
+    """Farthest rest distance [m] of each landing over the after-landing inputs.
 
-    The restitutions are taken at both ends of their ranges (the tilted contact need not be
-    monotone in them) with the lower friction and rolling resistance; the tilt (0 to its
-    largest) and its azimuth are searched on a grid refined twice around the farthest point
-    of each landing.
+    The orientation at the first contact is searched over a grid of rotations
+    (:data:`ORIENTATION_GRID`), the restitution and friction at both ends of their ranges (the
+    impact is not monotone in them), the rolling resistance at its low end; an object that
+    breaks throws its fragment at the top launch speed, at the farthest launch angle, straight
+    away from the release point.
     """
-    ground = settings.ground
+    ground, material = settings.ground, obj.material_class
     n = solution.time.size
+    downs, turns = ORIENTATION_GRID[1 if fine else 0]
+    grid = _orientation_grid(downs, turns)
     corners = [
-        (e_n, e_t) for e_n in ground.normal_restitution for e_t in ground.tangential_restitution
+        (e, mu)
+        for e in (
+            material.restitution[0] * ground.restitution_factor[0],
+            material.restitution[1] * ground.restitution_factor[1],
+        )
+        for mu in ground.friction
     ]
-    tilt_max = _tilt_max(obj, settings)
-    points_tilt, points_azimuth = TILT_GRID
-    best = np.zeros(n)
-    for e_n, e_t in corners:
-        tilt_lo, tilt_hi = np.zeros(n), np.full(n, tilt_max)
-        az_lo, az_hi = np.zeros(n), np.full(n, 360.0 * (1 - 1 / points_azimuth))
-        for _ in range(3):
-            tilts = tilt_lo[:, None] + (tilt_hi - tilt_lo)[:, None] * np.linspace(0, 1, points_tilt)
-            azimuths = az_lo[:, None] + (az_hi - az_lo)[:, None] * np.linspace(0, 1, points_azimuth)
-            grid_t = np.repeat(tilts, points_azimuth, axis=1)  # (n, T*A)
-            grid_a = np.tile(azimuths, (1, points_tilt))
-            g = grid_t.shape[1]
-            lanes = np.repeat(np.arange(n), g)
-            sub = FallSolution(
-                solution.time[lanes], solution.position[:, lanes], solution.velocity[:, lanes],
-                solution.landed[lanes], solution.steps[lanes],
-            )  # fmt: skip
-            rest, _, _ = _rest_after_landing(
-                sub, np.full(n * g, e_n), np.full(n * g, e_t), np.full(n * g, ground.friction[0]),
-                np.full(n * g, ground.rolling_resistance[0]), grid_t.ravel(), grid_a.ravel(),
-                obj, settings,
-            )  # fmt: skip
-            distance = np.hypot(rest[0], rest[1]).reshape(n, g)
-            pick = np.argmax(distance, axis=1)
-            best = np.maximum(best, distance[np.arange(n), pick])
-            tilt_step = (tilt_hi - tilt_lo) / (points_tilt - 1)
-            az_step = (az_hi - az_lo) / (points_azimuth - 1)
-            t_best = grid_t[np.arange(n), pick]
-            a_best = grid_a[np.arange(n), pick]
-            tilt_lo = np.maximum(t_best - tilt_step, 0.0)
-            tilt_hi = np.minimum(t_best + tilt_step, tilt_max)
-            az_lo, az_hi = a_best - az_step, a_best + az_step
+    g = grid.shape[0] * len(corners)
+    lanes = np.repeat(np.arange(n), g)
+    rotation = np.tile(grid, (n * len(corners), 1, 1))
+    corner_e = np.tile(np.repeat([c[0] for c in corners], grid.shape[0]), n)
+    corner_mu = np.tile(np.repeat([c[1] for c in corners], grid.shape[0]), n)
+    landing = solution.position[:2]
+    away = np.arctan2(landing[0], landing[1])  # compass direction of the landing point
+    away = np.where(np.hypot(landing[0], landing[1]) > 0, away, math.radians(settings.edge_azimuth))
+    sub = FallSolution(
+        solution.time[lanes], solution.position[:, lanes], solution.velocity[:, lanes],
+        solution.landed[lanes], solution.steps[lanes],
+    )  # fmt: skip
+    draw = LandingDraw(
+        restitution=corner_e,
+        friction=corner_mu,
+        rolling_resistance=np.full(lanes.size, ground.rolling_resistance[0]),
+        rotation=rotation,
+        fragment_speed=np.full(lanes.size, contact.FRAGMENT_SPEED_FRACTION[1]),
+        fragment_angle=np.full(lanes.size, 45.0),
+        fragment_azimuth=away[lanes],
+    )
+    rest, _, _ = _rest_after_landing(sub, draw, obj, settings)
+    distance = np.hypot(rest[0], rest[1])
+    distance = np.where(np.isnan(distance) & solution.landed[lanes], np.inf, distance)
+    best = np.max(distance.reshape(n, g), axis=1)
+    if obj.break_speed is not None:
+        # The fragment's throw at every launch angle, the farthest taken.
+        v = solution.velocity
+        impact = np.sqrt(np.sum(v * v, axis=0))
+        angles = np.linspace(*contact.FRAGMENT_ANGLE, FRAGMENT_ANGLE_POINTS)
+        throws = np.max(
+            [
+                contact.fragment_travel(
+                    impact, np.full(n, contact.FRAGMENT_SPEED_FRACTION[1]), np.full(n, angle),
+                    np.full(n, ground.friction[0]),
+                    np.full(n, material.restitution[0] * ground.restitution_factor[0]),
+                    math.radians(settings.ground_slope), gravity=settings.gravity,
+                )
+                for angle in angles
+            ],
+            axis=0,
+        )  # fmt: skip
+        broke = impact > obj.break_speed
+        best = np.where(broke, np.hypot(landing[0], landing[1]) + throws, best)
     return best
 
 
@@ -835,13 +1002,18 @@ def compute_zone(
     rng = np.random.default_rng(settings.seed)
     p = settings.confidence
     offsets: list[list[np.ndarray]] = [[] for _ in objects]
+    landings: list[tuple[FallSolution, LandingDraw] | None] = [None for _ in objects]
     drifts: list[list[np.ndarray]] = [[] for _ in objects]
     reuse = np.zeros(len(objects))  # largest fall-table error of each object [m]
     counts = np.zeros(len(objects), dtype=int)
 
     def sample(indices: list[int], target: int) -> None:
         for i in indices:
-            rest, drift, _, error = _sample_object(objects[i], settings, target - counts[i], rng)
+            need = target - counts[i]
+            rest, drift, _, error, solution, draw = _sample_object(objects[i], settings, need, rng)
+            if not offsets[i]:
+                m = min(need, SENSITIVITY_SAMPLES)
+                landings[i] = (_first_lanes(solution, m), draw.take(np.arange(m)))
             offsets[i].append(rest)
             drifts[i].append(drift)
             reuse[i] = max(reuse[i], error)
@@ -892,6 +1064,7 @@ def compute_zone(
         q_rest, se_rest = quantile_with_error(distance, p)
         q_drift, _ = quantile_with_error(np.concatenate(drifts[i]), p)
         carried = float(np.mean(np.isnan(distance)))
+        rolled_away = float(np.mean(np.isinf(distance)))
         worst = envelope_distance(obj, settings) if envelope else math.nan
         finite = distance[np.isfinite(distance)]
         if obj.plate is not None and envelope and finite.size:  # a sheet's path is chaotic
@@ -912,9 +1085,18 @@ def compute_zone(
                 worst_case=worst + settings.margin,
                 carried_away=carried,
                 offsets=rest,
+                rolled_away=rolled_away,
             )
         )
-    driver = max(zones, key=lambda z: z.radius)
+    lead = max(range(len(zones)), key=lambda k: zones[k].radius)
+    stored = landings[lead]
+    if envelope and stored is not None:  # the full zone, not an inverse question's trial
+        from dataclasses import replace
+
+        zones[lead] = replace(
+            zones[lead], sensitivity=_sensitivity(objects[lead], settings, *stored)
+        )
+    driver = zones[lead]
     worst_zone = driver if not envelope else max(zones, key=lambda z: z.worst_case)
     mean, gust = _mean_and_gust(settings)
     return ZoneResult(settings, tuple(zones), driver, worst_zone, gust, _turbulence(settings))
@@ -1147,6 +1329,9 @@ def zone_object(obj: object) -> ZoneObject:
         rolls="rolls" in obj.hazards,
         glides=obj.glides,
         plate=plate_dimensions(obj.shape, obj.dimensions),
+        shape=obj.shape,
+        dimensions=tuple(sorted(obj.dimensions.items())),
+        material=obj.material,
     )
 
 

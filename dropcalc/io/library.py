@@ -35,7 +35,7 @@ from dropcalc.model.limits import (
     MAX_NAME_CHARACTERS,
     MAX_TEXT_FILE_BYTES,
 )
-from dropcalc.physics import shapes
+from dropcalc.physics import contact, shapes
 from dropcalc.resources import data_path
 from dropcalc.units import parse_quantity
 
@@ -88,6 +88,7 @@ _OPTIONAL_KEYS = (
     "count",
     "unit_mass_kg",
     "tare_mass_kg",
+    "material",
 )
 _ALL_KEYS = _REQUIRED_KEYS + _OPTIONAL_KEYS
 
@@ -161,6 +162,9 @@ class DropObject:
         Words from :data:`HAZARDS`.
     fragile : bool
         May break on impact (glass, tiles, blocks).
+    material : str
+        Material class for the contact after landing (``contact.MATERIALS``: its restitution
+        and, with ``fragile``, its breaking speed); "" for the default class.
     notes : str
         Free text: counts of bundles, what the contact area is, assumptions.
     mass_source : str
@@ -199,6 +203,7 @@ class DropObject:
     contact_area: float | None = None
     hazards: tuple[str, ...] = ()
     fragile: bool = False
+    material: str = ""
     notes: str = ""
     mass_source: str = ""
     size_source: str = ""
@@ -232,6 +237,7 @@ class DropObject:
             "contact_area_m2": self.contact_area,
             "hazards": list(self.hazards),
             "fragile": self.fragile,
+            "material": self.material or contact.DEFAULT_MATERIAL,
             "glides": self.glides,
             "mass_basis": self.mass_basis,
             "mass_source": self.mass_source,
@@ -249,6 +255,8 @@ class DropObject:
         unknown = sorted(set(self.hazards) - set(HAZARDS))
         if unknown:
             raise InputError(f'hazards must be words from {", ".join(HAZARDS)}; got "{unknown[0]}"')
+        if self.material:
+            contact.material(self.material)  # an unknown class lists the known ones
         if self.contact_area is not None:
             _positive(self.contact_area, "contact_area_m2", "area", f"{self.contact_area:g}")
         bounds = shapes.drag_bounds(shape, **dimensions)
@@ -788,6 +796,12 @@ def _object_from_record(
     if not isinstance(fragile, bool):
         raise InputError(f"{locate('fragile')}fragile must be true or false; got {fragile!r}")
     basis, density, mass_range = _mass_basis(record, mass, shape, dimensions, locate, builtin)
+    material = record.get("material", "")
+    if not isinstance(material, str) or (material and material not in contact.MATERIALS):
+        raise InputError(
+            f"{locate('material')}material must be one of {', '.join(contact.MATERIALS)}; "
+            f"got {material!r}"
+        )
     source = text("source")
     try:
         return DropObject(
@@ -800,6 +814,7 @@ def _object_from_record(
             contact_area=optional("contact_area_m2", "area"),
             hazards=tuple(hazards),
             fragile=fragile,
+            material=material,
             notes=text("notes"),
             mass_source=text("mass_source") or source or f"user file {default_source}",
             size_source=text("size_source") or source or f"user file {default_source}",

@@ -37,11 +37,11 @@ _KEYS: dict[str, set[str]] = {
     },
     "site": {
         "elevation", "air_temperature", "pressure", "humidity", "air_density", "latitude",
-        "ground", "origin", "outline",
+        "ground", "ground_slope", "origin", "outline",
     },
     "wind": {"speed", "kind", "from", "terrain", "profile", "exponent", "roughness", "measured"},
     "policy": {
-        "confidence", "margin", "levels", "rules_file", "precision", "seed", "contact_tilt",
+        "confidence", "margin", "levels", "rules_file", "precision", "seed",
     },  # fmt: skip
     "work_area": {
         "name", "release", "release_speed", "release_angle", "roof_pitch", "roof_length",
@@ -87,6 +87,7 @@ class Scenario:
     wind: Any  # WindSpec
     wind_from_given: bool
     ground: Any  # Surface
+    ground_slope: float
     origin: tuple[float, float] | None
     work_areas: tuple[WorkArea, ...]
     items: Any  # list of dropcalc.analysis.batch.Item
@@ -94,7 +95,6 @@ class Scenario:
     margin: float
     precision: float
     seed: int
-    contact_tilt: float
     levels: tuple[Any, ...]
     rules: tuple[Any, ...]
     library: Any
@@ -207,7 +207,7 @@ def load_scenario(path: Path, *, allow_file_references: bool = True) -> Scenario
     from dropcalc.physics.atmosphere import air_state
     from dropcalc.physics.gravity import gravity as local_gravity
     from dropcalc.physics.release import DEFAULT_ROOF_FRICTION, Release
-    from dropcalc.physics.scatter import CONTACT_TILT_MAX, CONTACT_TILT_RANGE, surface
+    from dropcalc.physics.scatter import SLOPE_RANGE, surface
     from dropcalc.physics.wind import wind_at_site, wind_spec
     from dropcalc.units import parse_direction, parse_quantity
 
@@ -308,6 +308,13 @@ def load_scenario(path: Path, *, allow_file_references: bool = True) -> Scenario
     latitude = site_table.get("latitude")
     g = model("site.latitude", lambda: local_gravity(latitude, elevation))
     ground = model("site.ground", lambda: surface(site_table.get("ground", "concrete")))
+    ground_slope = quantity(site_table.get("ground_slope", "0 deg"), "angle", "site.ground_slope")
+    if not (SLOPE_RANGE[0] <= ground_slope <= SLOPE_RANGE[1]):
+        raise where.error(
+            "site.ground_slope",
+            f"must be between {SLOPE_RANGE[0]:g} and {SLOPE_RANGE[1]:g} deg; "
+            f"got {ground_slope:g} deg",
+        )
     origin = None
     if "origin" in site_table:
         o = site_table["origin"]
@@ -379,15 +386,6 @@ def load_scenario(path: Path, *, allow_file_references: bool = True) -> Scenario
     fractional = isinstance(raw_seed, float) and not raw_seed.is_integer()
     if seed < 0 or fractional:
         raise where.error("policy.seed", f"must be a whole number >= 0; got {raw_seed!r}")
-    contact_tilt = quantity(
-        policy.get("contact_tilt", CONTACT_TILT_MAX), "angle", "policy.contact_tilt"
-    )
-    low, high = CONTACT_TILT_RANGE
-    if not (low <= contact_tilt <= high):
-        raise where.error(
-            "policy.contact_tilt",
-            f"must be between {low:g} and {high:g} deg; got {contact_tilt:g} deg",
-        )
     level_keys = policy.get("levels", list(DEFAULT_LEVEL_KEYS))
     if not isinstance(level_keys, list):
         raise where.error("policy.levels", "expected a list of reference level keys")
@@ -563,6 +561,7 @@ def load_scenario(path: Path, *, allow_file_references: bool = True) -> Scenario
         wind=wind,
         wind_from_given=wind_from_given,
         ground=ground,
+        ground_slope=ground_slope,
         origin=origin,
         work_areas=tuple(areas),
         items=items,
@@ -570,7 +569,6 @@ def load_scenario(path: Path, *, allow_file_references: bool = True) -> Scenario
         margin=margin,
         precision=precision,
         seed=seed,
-        contact_tilt=contact_tilt,
         levels=levels,
         rules=rules,
         library=library,

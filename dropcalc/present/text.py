@@ -421,7 +421,7 @@ def zone_json(result: object, limits: dict | None = None) -> dict:
         "gust_speed_10m_m_s": r.gust_speed,
         "turbulence_intensity": r.turbulence_intensity,
         "ground": s.ground.key,
-        "contact_tilt_deg": s.uncertainty.contact_tilt,
+        "ground_slope_deg": s.ground_slope,
         "air_density_kg_m3": s.air.density,
         "seed": s.seed,
         "objects": [
@@ -435,12 +435,14 @@ def zone_json(result: object, limits: dict | None = None) -> dict:
                 "worst_case_radius_m": finite(z.worst_case),
                 "max_sampled_m": finite(z.max_sampled),
                 "carried_away_fraction": z.carried_away,
+                "rolled_away_fraction": z.rolled_away,
                 "samples": z.samples,
                 "glides": z.obj.glides,
                 "flight_model": "plate" if z.obj.plate is not None else "point mass",
             }
             for z in r.objects
         ],
+        "after_landing": after_landing_json(r),
         "statement": zone_statement(r),
         "not_modelled": "deflection off the structure (scaffold, facade, balconies)",
         "wind_warning": (
@@ -488,6 +490,92 @@ def barricade_text(limits: dict, system: str = "si") -> str:
         f"{_fmt(10.0, 'length', system, 2)}. In this wind it holds up to a work height of "
         f"{_fmt(limits['height'], 'length', system)}."
     )
+
+
+def after_landing_json(result: object) -> dict:
+    """The after-landing model of the driving object: its inputs, sources and sensitivity."""
+    from dropcalc.physics import contact
+
+    s, d = result.settings, result.driver
+    obj, ground = d.obj, s.ground
+    material = obj.material_class
+    return {
+        "model": "first contact as a planar rigid-body impact with Coulomb friction and "
+        "energetic restitution at a random orientation; then hops, and a slide or a skid and "
+        "roll; an object that breaks throws fragments instead",
+        "object": obj.name,
+        "material": material.key,
+        "restitution_on_concrete": list(material.restitution),
+        "restitution_source": material.restitution_source,
+        "restitution_reference_speed_m_s": contact.REFERENCE_SPEED,
+        "restitution_speed_exponent": contact.RESTITUTION_SPEED_EXPONENT,
+        "ground_restitution_factor": list(ground.restitution_factor),
+        "friction": list(ground.friction),
+        "rolling_resistance": list(ground.rolling_resistance) if obj.rolls else None,
+        "ground_source": ground.source,
+        "ground_slope_deg": s.ground_slope,
+        "break_speed_m_s": obj.break_speed,
+        "break_source": material.break_source if obj.fragile else None,
+        "fragment_speed_fraction": (
+            list(contact.FRAGMENT_SPEED_FRACTION) if obj.break_speed is not None else None
+        ),
+        "fragment_angle_deg": (
+            list(contact.FRAGMENT_ANGLE) if obj.break_speed is not None else None
+        ),
+        "sensitivity": [
+            {
+                "parameter": row.parameter,
+                "low": row.low if math.isfinite(row.low) else None,
+                "high": row.high if math.isfinite(row.high) else None,
+                "radius_at_low_m": row.radius_low if math.isfinite(row.radius_low) else None,
+                "radius_at_high_m": row.radius_high if math.isfinite(row.radius_high) else None,
+            }
+            for row in d.sensitivity
+        ],
+    }
+
+
+def after_landing_lines(result: object, system: str = "si") -> list[tuple[str, str]]:
+    """Rows for the terminal: the driving object's after-landing inputs and their weight."""
+    d = result.driver
+    material = d.obj.material_class
+    ground = result.settings.ground
+    rows = [
+        (
+            "After landing",
+            f"{material.label}: restitution {material.restitution[0]:g}-"
+            f"{material.restitution[1]:g} on concrete (x {ground.restitution_factor[0]:g}-"
+            f"{ground.restitution_factor[1]:g} on {ground.label}), falling with speed; "
+            f"friction {ground.friction[0]:g}-{ground.friction[1]:g}"
+            + (
+                f"; rolling resistance {ground.rolling_resistance[0]:g}-"
+                f"{ground.rolling_resistance[1]:g}"
+                if d.obj.rolls
+                else ""
+            )
+            + (
+                f"; breaks above {d.obj.break_speed:g} m/s and throws fragments"
+                if d.obj.break_speed is not None
+                else ""
+            ),
+        )
+    ]
+    labels = {
+        "restitution": "restitution",
+        "friction": "friction",
+        "rolling_resistance": "rolling resistance",
+        "fragment_speed": "fragment speed",
+    }
+    for row in d.sensitivity:
+        if row.parameter == "all":
+            label = "  all at their ends"
+        else:
+            label = f"  {labels[row.parameter]} {row.low:.3g} / {row.high:.3g}"
+        rows.append(
+            (label, f"radius {_fmt(row.radius_low, 'length', system)} / "
+                    f"{_fmt(row.radius_high, 'length', system)}")
+        )  # fmt: skip
+    return rows
 
 
 def zone_statement(result: object, system: str = "si") -> str:
@@ -583,8 +671,9 @@ def render_zone(
                  f"{_fmt(10.0, 'length', system, 2)}; gust "
                  f"{_fmt(r.gust_speed, 'speed', system)}, turbulence intensity "
                  f"{r.turbulence_intensity:.2f}"),
-        ("Ground", f"{s.ground.label}; first bounce off a contact tilted up to "
-                   f"{s.uncertainty.contact_tilt:g}° (a third for round items)"),
+        ("Ground", f"{s.ground.label}, slope {s.ground_slope:g}°; first contact as a "
+                   "rigid-body impact with friction at a random orientation"),
+        *after_landing_lines(r, system),
     ]  # fmt: skip
     if limits is not None:
         rows.append(

@@ -175,9 +175,9 @@ def build_report(job: JobResult, figure_dir: Path) -> ReportData:
             ("Gravity", f"{scenario.gravity:.4g} m/s²"),
             ("Margin added", f"{scenario.margin:.3g} m"),
             (
-                "Bounce off the ground",
-                f"the first contact's normal tilted up to {scenario.contact_tilt:g}° "
-                "(sends a dropped object sideways)",
+                "After landing",
+                "first contact as a rigid-body impact with friction at a random orientation; "
+                f"ground slope {scenario.ground_slope:g}° (taken to fall away from the edge)",
             ),
             (
                 "Monte Carlo precision",

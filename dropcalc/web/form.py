@@ -30,10 +30,10 @@ JOB_FIELDS = (
 )  # fmt: skip
 SITE_FIELDS = (
     "elevation", "air_temperature", "pressure", "humidity", "air_density", "latitude", "ground",
-    "origin_lat", "origin_lon",
+    "ground_slope", "origin_lat", "origin_lon",
 )  # fmt: skip
 WIND_FIELDS = ("speed", "kind", "from", "terrain", "profile", "exponent", "roughness")
-POLICY_FIELDS = ("confidence", "margin", "levels", "precision", "seed", "contact_tilt")
+POLICY_FIELDS = ("confidence", "margin", "levels", "precision", "seed")
 AREA_FIELDS = (
     "name", "release", "release_speed", "release_angle", "roof_pitch", "roof_length", "friction",
     "rolling",
