@@ -5,13 +5,15 @@ Two answers, side by side:
 - ``radius_m``: the distance from the release point within which a stated share (the confidence,
   default 0.99) of simulated drops came to rest, plus a margin. The inputs that are uncertain on
   the day (wind speed and direction, how the object leaves the edge, its orientation while it
-  tumbles, its drag coefficient, the air density, the ground's restitution and friction) are
+  tumbles, its drag coefficient, the air density, the restitution, friction and rolling
+  resistance after landing and the orientation at the first contact) are
   sampled from documented distributions (:class:`Uncertainty`), the trajectories solved in one
   array call, the bounce and slide added, and the quantile taken. Sampling goes on until the
   quantile's standard error is below a tolerance.
 - ``worst_case_radius_m``: the deterministic envelope: every sampled input at the end of its
   range that carries the object furthest (the gust speed blowing straight out from the edge, the
-  highest release speed, the drag area over its whole range, upper restitution, lower friction),
+  highest release speed, the drag area over its whole range, both ends of the restitution and
+  friction, the lowest rolling resistance, the orientation at the first contact searched),
   plus the same margin. No Monte Carlo sample lies beyond it.
 
 The radius is split as ``radius = drift + scatter + margin``: ``drift_m`` is the confidence
@@ -771,8 +773,9 @@ def envelope_distance(obj: ZoneObject, settings: ZoneSettings) -> float:
     gust speed blowing straight out from the edge, the highest release speed pointing straight
     out, the drag area over its whole range widened by the Cd spread and by the air density's
     spread (a fall depends on both only through their product), the throw angle over its
-    range, both ends of the restitution ranges, lower friction and the first contact's tilt
-    over its cone (:func:`_farthest_rest`). The drag area and throw angle are searched on a
+    range, both ends of the restitution and friction ranges, the lowest rolling resistance,
+    the fastest fragments and the orientation at the first contact over a grid
+    (:func:`_farthest_rest`). The drag area and throw angle are searched on a
     grid refined twice around the farthest point (the farthest landing need not be at either
     end of a range when a push and the wind compete); the search is good to well under a
     millimetre and :data:`ENVELOPE_SEARCH_ALLOWANCE` is added for it.

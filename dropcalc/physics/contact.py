@@ -2,25 +2,26 @@
 
 An object that reaches the ground at a random orientation strikes on a corner, an edge, the end
 of a tube or a face. This module resolves that strike with the mechanics of rigid-body impact
-with Coulomb friction and restitution [1]_, [2]_, vectorised over Monte Carlo samples:
+with Coulomb friction and restitution [BRACH-1991], [STRONGE-2000], vectorised over Monte
+Carlo samples:
 
 1. **Where it touches.** The orientation at the contact is uniformly random over all rotations
-   (the tumbling body of the drag model: Cauchy's mean projected area S/4, REFERENCES.md §2,
+   (the tumbling body of the drag model: Cauchy's mean projected area S/4 [VOUK-1948]
    is the average over exactly these orientations). The contact point C is the lowest point of
    the shape class (box, plate and irregular as their bounding box, cylinder, tube, sphere);
    its offset from the centre of mass G gives the lever arm.
 2. **The impact.** The impact is solved in the vertical plane through G and C (planar impact,
-   [1]_ ch. 4, [2]_ ch. 4) along the normal impulse p, the contact point's velocity changing
-   linearly with p while it slips in one direction or sticks:
+   [BRACH-1991] ch. 4, [STRONGE-2000] ch. 4) along the normal impulse p, the contact point's
+   velocity changing linearly with p while it slips in one direction or sticks:
 
        d c / d p = W (f, 1),  W = [[1 + r_n^2 / k^2, -r_t r_n / k^2],
                                    [-r_t r_n / k^2, 1 + r_t^2 / k^2]]   (per unit mass)
 
    with f = -mu sign(c_t) while slipping and f = -W_tn / W_tt while sticking. The contact
-   sticks once slip stops if mu W_tt >= |W_tn| (the sticking condition [2]_ §4.3; [3]_),
-   otherwise it slips back. Compression ends when the normal velocity of C is zero; the
-   restitution phase ends when the normal force has returned e^2 of the work it took in
-   compression (Stronge's energetic coefficient of restitution, [2]_ §4.2), which, unlike
+   sticks once slip stops if mu W_tt >= |W_tn| (the sticking condition, [STRONGE-2000] §4.3,
+   [KELLER-1986]), otherwise it slips back. Compression ends when the normal velocity of C is
+   zero; the restitution phase ends when the normal force has returned e^2 of the work it took in
+   compression (Stronge's energetic coefficient of restitution, [STRONGE-2000] §4.2), which, unlike
    Newton's kinematic coefficient, never creates energy when slip stops or reverses. A strike
    off the line through G makes the body jump and spin sideways; a centred strike (a sphere, a
    tube landing flat) does not.
@@ -30,23 +31,18 @@ with Coulomb friction and restitution [1]_, [2]_, vectorised over Monte Carlo sa
    orientation, later contacts are centred), with the spin it carries. Hops are counted while
    the rebound speed is at least :data:`STOP_SPEED`; then the body slides to rest against
    Coulomb friction, or a round body skids until it rolls at v / (1 + I / (m r^2)) and rolls
-   out against the ground's rolling resistance ([4]_ ch. 11), on level ground or down a slope.
+   out against the ground's rolling resistance ([HRW-2011]), on level ground or down a slope.
 4. **Breaking.** An object of a brittle material whose impact speed exceeds its breaking speed
    does not bounce whole: it breaks, and its fragments fly from the impact point
    (:func:`fragment_travel`).
 
 Restitution depends on the object's material class and the ground, and falls with the normal
-impact speed as v^(-1/4) above a reference speed (the elastic-plastic trend of Johnson 1985,
-[5]_ §11.4): :func:`normal_restitution` and the table :data:`MATERIALS`.
+impact speed as v^(-1/4) above a reference speed (the elastic-plastic trend of [JOHNSON-1985]
+§11.4): :func:`normal_restitution` and the table :data:`MATERIALS`.
 
 References
 ----------
-.. [1] R. M. Brach, *Mechanical Impact Dynamics: Rigid Body Collisions*, Wiley, 1991.
-.. [2] W. J. Stronge, *Impact Mechanics*, Cambridge University Press, 2000.
-.. [3] J. B. Keller, "Impact with friction", Journal of Applied Mechanics 53 (1986) 1-4.
-.. [4] D. Halliday, R. Resnick and J. Walker, *Fundamentals of Physics*, 10th ed., Wiley, 2014
-   (rolling, ch. 11; projectile range, ch. 4; chapter numbers from memory).
-.. [5] K. L. Johnson, *Contact Mechanics*, Cambridge University Press, 1985, ch. 11.
+[BRACH-1991], [STRONGE-2000], [KELLER-1986], [HRW-2011], [JOHNSON-1985] (docs/references.md).
 """
 
 from __future__ import annotations
@@ -76,8 +72,8 @@ MAX_LATER_CONTACTS = 8
 REFERENCE_SPEED = 4.43
 
 #: Exponent of the fall of the normal restitution with impact speed above
-#: :data:`REFERENCE_SPEED` [-]: e proportional to v^(-1/4) in elastic-plastic impact (Johnson,
-#: Contact Mechanics, 1985, §11.4, from memory).
+#: :data:`REFERENCE_SPEED` [-]: e proportional to v^(-1/4) in elastic-plastic impact ([JOHNSON-1985]
+#: §11.4, from memory).
 RESTITUTION_SPEED_EXPONENT = -0.25
 
 
@@ -213,9 +209,9 @@ def material(name: str | Material) -> Material:
 def normal_restitution(reference: FloatArray, speed: FloatArray) -> FloatArray:
     """Normal restitution at a normal impact speed, from its value at the reference speed.
 
-    e(v) = e_ref min(1, (v / v_ref)^(-1/4)), the elastic-plastic trend of Johnson (Contact
-    Mechanics, 1985, §11.4, from memory) above v_ref = :data:`REFERENCE_SPEED`, constant
-    below it (the tabulated values already hold at low speed).
+    e(v) = e_ref min(1, (v / v_ref)^(-1/4)), the elastic-plastic trend of [JOHNSON-1985]
+    (§11.4, from memory) above v_ref = :data:`REFERENCE_SPEED`, constant below it (the
+    tabulated values already hold at low speed).
 
     Parameters
     ----------
@@ -268,12 +264,11 @@ class Body:
 def body(shape: str, dimensions: Mapping[str, float]) -> Body:
     """The contact geometry of a library shape class and its dimensions [m].
 
-    Moments of inertia of uniform solids (Halliday, Resnick and Walker, Fundamentals of Physics,
-    Table 10-2, from memory): box I_x = m (b^2 + c^2) / 12 for edges a, b, c; solid cylinder
-    about its axis m r^2 / 2, across it m (3 r^2 + L^2) / 12; thick tube about its axis
-    m (r_o^2 + r_i^2) / 2, across it m (3 (r_o^2 + r_i^2) + L^2) / 12; solid sphere 2 m r^2 / 5.
-    An irregular body is taken as its uniform bounding box (an assumption: its mass is spread
-    over the box).
+    Moments of inertia of uniform solids ([HRW-2011], from memory): box I_x = m (b^2 + c^2) / 12
+    for edges a, b, c; solid cylinder about its axis m r^2 / 2, across it m (3 r^2 + L^2) / 12;
+    thick tube about its axis m (r_o^2 + r_i^2) / 2, across it m (3 (r_o^2 + r_i^2) + L^2) / 12;
+    solid sphere 2 m r^2 / 5. An irregular body is taken as its uniform bounding box (an
+    assumption: its mass is spread over the box).
     """
     if shape in ("box", "plate", "irregular"):
         if shape == "plate":
@@ -306,8 +301,8 @@ def body(shape: str, dimensions: Mapping[str, float]) -> Body:
 def cube_body(drag_area: float) -> Body:
     """Contact geometry assumed for a custom object known only by its drag area.
 
-    A cube whose face gives the largest drag area with C_d = 1.05 (cube face on, REFERENCES.md
-    §2): edge sqrt(A / 1.05). An assumption; name a shape class for a better answer.
+    A cube whose face gives the largest drag area with C_d = 1.05 (cube face on, [WHITE-FM]
+    table 7.2): edge sqrt(A / 1.05). An assumption; name a shape class for a better answer.
     """
     edge = float(np.sqrt(drag_area / 1.05))
     return body("box", {"length": edge, "width": edge, "height": edge})
@@ -461,7 +456,7 @@ def planar_impact(
     f = -W_tn / W_tt while sticking. Slip that stops turns into sticking when
     mu W_tt >= |W_tn| (the sticking condition), else into slip the other way. The impact ends
     when the normal force has done, in restitution, e^2 times minus its work in compression
-    (energetic restitution; Stronge, Impact Mechanics, 2000, §4.2-4.3). At most two phases
+    (energetic restitution; [STRONGE-2000] §4.2-4.3). At most two phases
     occur because W is constant.
 
     Parameters
@@ -840,7 +835,7 @@ def fragment_travel(
     """Distance a fragment travels from the impact point: its throw, then a slide [m].
 
     The fragment leaves at f v at elevation theta and flies (f v)^2 sin(2 theta) / g on flat
-    ground (projectile range, Halliday, Resnick and Walker, ch. 4, from memory). It lands with
+    ground (projectile range, [HRW-2011], from memory). It lands with
     the vertical speed it left with; the landing, a centred contact with Coulomb friction,
     takes up to mu (1 + e) of that from its horizontal speed, and it slides out the rest,
     v^2 / (2 g (mu cos beta - sin beta)).

@@ -51,8 +51,8 @@ class Surface:
 
 _FACTOR_SOURCE = (
     "restitution factor: ratio of the rockfall normal restitution on this ground to that on "
-    "rock or concrete (0.45-0.55), low end to low end and high to high: Dorren, Prog. Phys. "
-    "Geogr. 27 (2003) 69-87; Chau et al., IJRMMS 39 (2002) 69-77 (from memory)"
+    "rock or concrete (0.45-0.55), low end to low end and high to high: [DORREN-2003], "
+    "[CHAU-2002] (from memory)"
 )
 _FRICTION_SOURCE = (
     "mu: steel, concrete or timber sliding on the surface (from memory; common practice, no source)"
@@ -101,7 +101,7 @@ SURFACES: Mapping[str, Surface] = MappingProxyType(
                 friction=(0.4, 0.7),
                 rolling_resistance=(0.05, 0.2),
                 source="restitution factor: from e_n 0.25-0.35, chosen between compact soil "
-                "(0.30-0.40) and soft soil (0.20-0.30) of Dorren (2003) and Chau et al. (2002) "
+                "(0.30-0.40) and soft soil (0.20-0.30) of [DORREN-2003] and [CHAU-2002] "
                 "(from memory), over rock 0.45-0.55: loose stones take up energy by moving, "
                 f"yet a stone layer is harder than soft soil; no source for the choice; "
                 f"{_FRICTION_SOURCE}; {_ROLLING_SOURCE}",
