@@ -723,3 +723,26 @@ def test_a_huge_cell_is_named_but_not_quoted_whole(tmp_path):
     for number, line in zip((2, 3, 4), lines, strict=True):
         assert f"row {number}:" in line
         assert len(line) <= 450, len(line)
+
+
+def test_repeated_rows_are_solved_once_with_the_same_figures_as_alone(tmp_path):
+    # Rows naming the same object (a sheet flown by the plate model, a brick) are solved once
+    # per distinct object; each row's figures equal those of the object solved on its own.
+    settings = BatchSettings(height=15.0, wind=wind_spec(6.0))
+    library = load_library()
+    ids = ["plywood-12mm-half-sheet", "brick-uk-standard", "plywood-12mm-half-sheet"]
+    listed = write_text(tmp_path, "list.csv", "id\n" + "\n".join(ids) + "\n")
+    items, errors = parse_items(read_table(listed), library, settings)
+    assert errors == []
+    rows = solve_items(items, settings)
+    for object_id in set(ids):
+        alone = write_text(tmp_path, "alone.csv", f"id\n{object_id}\n")
+        single, _ = parse_items(read_table(alone), library, settings)
+        (expected,) = solve_items(single, settings)
+        for row in rows:
+            if row["id"] == object_id:
+                for key in ("impact_energy_max_j", "drift_max_m", "fall_time_s"):
+                    assert row[key] == expected[key], (object_id, key)
+                safe = [k for k in row if k.startswith("safe_height_")]
+                assert safe
+                assert all(row[k] == expected[k] for k in safe)

@@ -11,6 +11,7 @@ others go on.
 
 from __future__ import annotations
 
+import functools
 import math
 import re
 from collections.abc import Callable, Sequence
@@ -407,23 +408,41 @@ def parse_items(
     ``first_row`` is the spreadsheet number of the frame's first row (2 for a whole table; more
     for a later chunk of a long list).
     """
+    from dataclasses import replace
+
     from dropcalc.analysis.fall import check_object
 
     items: list[Item] = []
     errors: list[RowError] = []
+    # A row equal to an earlier one resolves the same but for its number: a long list repeats
+    # a few hundred objects, so each distinct row is read (units, library, checks) once.
+    resolved: dict[tuple[tuple[str, Any], ...], Item | str] = {}
     for index, record in enumerate(frame.to_dict("records")):
         number = index + first_row
         if not any(str(v).strip() for v in record.values()):
             continue  # blank line
         try:
-            item = _resolve_row(number, record, library, settings)
-            # The same range checks as a single fall.
-            check_object(
-                item.mass, item.drag_area_min, item.height, item.contact_area, item.drag_area_max
-            )
-            items.append(item)
-        except DropcalcError as exc:
-            errors.append(RowError(number, _cell(record, "label"), _cell(record, "id"), str(exc)))
+            key: tuple[tuple[str, Any], ...] | None = tuple(record.items())
+            hash(key)
+        except TypeError:
+            key = None
+        known = resolved.get(key) if key is not None else None
+        if known is None:
+            try:
+                known = _resolve_row(number, record, library, settings)
+                # The same range checks as a single fall.
+                check_object(
+                    known.mass, known.drag_area_min, known.height, known.contact_area,
+                    known.drag_area_max,
+                )  # fmt: skip
+            except DropcalcError as exc:
+                known = str(exc)
+            if key is not None:
+                resolved[key] = known
+        if isinstance(known, str):
+            errors.append(RowError(number, _cell(record, "label"), _cell(record, "id"), known))
+        else:
+            items.append(known if known.row == number else replace(known, row=number))
     return items, errors
 
 
@@ -804,12 +823,16 @@ def _plate_rows(rows: list[dict[str, Any]], items: Sequence[Item], settings: Bat
         initial_velocity(settings.release, settings.edge_azimuth, settings.gravity), dtype=float
     )
     sheets = [items[i] for i in chosen]
+    # Each distinct sheet (dimensions, mass, height) is flown once: a long list repeats a few.
+    keys = np.array([(*it.plate, it.mass, it.height) for it in sheets], dtype=float)
+    distinct, inverse = np.unique(keys, axis=0, return_inverse=True)
     found = sweep_rows(
-        [it.plate for it in sheets], np.array([it.mass for it in sheets]),
-        np.array([it.height for it in sheets]), settings.air.density, settings.wind,
-        settings.wind.speed_10m, settings.edge_azimuth, v0, settings.gravity,
+        [tuple(key[:3]) for key in distinct], distinct[:, 3], distinct[:, 4],
+        settings.air.density, settings.wind, settings.wind.speed_10m, settings.edge_azimuth, v0,
+        settings.gravity,
     )  # fmt: skip
-    for j, (i, item) in enumerate(zip(chosen, sheets, strict=True)):
+    for j_row, (i, item) in enumerate(zip(chosen, sheets, strict=True)):
+        j = int(inverse.reshape(-1)[j_row])
         row = rows[i]
         length, width, _ = item.plate
         row["lift_off_speed_m_s"] = float(
@@ -871,6 +894,12 @@ def neutralise(value: Any) -> Any:
     """
     if not isinstance(value, str):
         return value
+    return _neutral_text(value)
+
+
+@functools.lru_cache(maxsize=4096)
+def _neutral_text(value: str) -> str:
+    """:func:`neutralise` of a text (remembered: a long list repeats its names and notes)."""
     text = _CONTROL_RE.sub(lambda match: " " if match.group() in "\t\n\r" else "", value)
     text = _SEPARATED_FORMULA_RE.sub(r"\1'", text)
     return "'" + text if text.lstrip().startswith(_FORMULA_START) else text
