@@ -160,6 +160,11 @@ def test_page_one_does_not_disown_a_sheet_the_plate_model_covers(sheet: dict[str
     keep = first.index("Keep ")
     beside = first[keep : first.index("Worst case", keep)]
     assert "not conservative" not in beside, beside
+    # Issue 13: what it does carry is said beside the distance: a sheet lying loose on the
+    # roof lifts off in this wind.
+    assert any("lifts off" in w for w in area["driver_warnings"]), area
+    assert "Warning: the distance is set by Plywood half sheet" in beside, beside
+    assert "lifts off above about" in beside, beside
 
 
 def test_page_one_says_what_is_reached_only_over_or_around_the_building(

@@ -340,11 +340,23 @@ def _object_rows(scenario: Scenario) -> list[dict[str, Any]]:
 
 
 def _row_warnings(rows: list[dict[str, Any]], name: str) -> tuple[str, ...]:
-    """The warnings of the object-table row of one object (by label or name)."""
+    """The warnings of the object-table row of one object (by label or name).
+
+    The row's own warnings, and for a sheet or plate flown by the plate model the wind at
+    which it lifts off when lying flat on a roof (a sheet left loose leaves the roof itself).
+    """
     for row in rows:
         if name in (row.get("label"), row.get("name")):
             text = str(row.get("warnings") or "")
-            return tuple(w.strip() for w in text.split(";") if w.strip())
+            out = [w.strip() for w in text.split(";") if w.strip()]
+            if row.get("glides") and row.get("flight_model") == "plate":
+                lift_off = row.get("lift_off_speed_m_s")
+                if lift_off:
+                    out.append(
+                        f"lying flat on a roof it lifts off above about {lift_off:.0f} m/s at "
+                        "roof level (gust)"
+                    )
+            return tuple(out)
     return ()
 
 
