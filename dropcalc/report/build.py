@@ -314,14 +314,8 @@ def draw_figures(job: JobResult, folder: Path, image_format: str = "png") -> dic
         side_title = "Falls from the highest edge, still air"
     elif job.wind_outward:
         side_title = "Falls from the highest edge, wind straight out (no direction given)"
-    else:
-        from dropcalc.physics.wind import compass_point
-
-        side_title = (
-            "Falls from the highest edge, wind turned straight out (the worst case; "
-            f"the day's wind is from {wind.from_direction_deg:.0f}°, "
-            f"{compass_point(wind.from_direction_deg)})"
-        )
+    else:  # the day's direction is in the conditions; the side view turns it outward
+        side_title = "Falls from the highest edge, wind turned straight out (worst case)"
     side_view(side, cases, height, title=side_title)
     figures["side_view"] = side
     curves = [
