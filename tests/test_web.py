@@ -603,3 +603,18 @@ def test_serve_port_range() -> None:
 
     result = CliRunner().invoke(app, ["serve", "--no-browser", "--port", "70000"])
     assert result.exit_code == 2, result.output
+
+
+def test_the_form_has_every_key_of_the_scenario_file() -> None:
+    """A key added to the scenario loader must reach the page (or a round trip loses it)."""
+    from dropcalc.io.scenario import _KEYS
+    from dropcalc.web import form
+
+    assert set(form.JOB_FIELDS) == _KEYS["job"]
+    site = set(form.SITE_FIELDS) - {"origin_lat", "origin_lon"} | {"origin", "outline"}
+    assert site == _KEYS["site"]
+    assert set(form.WIND_FIELDS) == _KEYS["wind"]
+    assert set(form.POLICY_FIELDS) == _KEYS["policy"] - {"rules_file"}  # no files on the page
+    assert set(form.AREA_FIELDS) | {"edge"} == _KEYS["work_area"]
+    assert set(form.EDGE_FIELDS) | {"points"} == _KEYS["edge"]
+    assert set(form.OBJECT_FIELDS) == _KEYS["object"]

@@ -32,11 +32,13 @@ SITE_FIELDS = (
     "elevation", "air_temperature", "pressure", "humidity", "air_density", "latitude", "ground",
     "ground_slope", "origin_lat", "origin_lon",
 )  # fmt: skip
-WIND_FIELDS = ("speed", "kind", "from", "terrain", "profile", "exponent", "roughness")
+WIND_FIELDS = (
+    "speed", "kind", "measured", "from", "terrain", "profile", "exponent", "roughness",
+)  # fmt: skip
 POLICY_FIELDS = ("confidence", "margin", "levels", "precision", "seed")
 AREA_FIELDS = (
     "name", "release", "release_speed", "release_angle", "roof_pitch", "roof_length", "friction",
-    "rolling",
+    "rolling", "clear_distance",
 )  # fmt: skip
 EDGE_FIELDS = ("name", "height")
 #: An object: a library id, or a custom object (mass with drag_area, or shape and dimensions),

@@ -366,6 +366,10 @@ def choices() -> dict[str, Any]:
         "terrain_aliases": dict(TERRAIN_ALIASES),
         "releases": list(RELEASE_MODES),
         "wind_kinds": [["mean", "10-minute mean"], ["gust", "gust"]],
+        "wind_measured": [
+            ["site", "at the site"],
+            ["open-country", "in open country (forecast, airport)"],
+        ],
         "levels": [[key, lv.label] for key, lv in REFERENCE_LEVELS.items()],
         "default_levels": list(DEFAULT_LEVEL_KEYS),
     }
@@ -494,6 +498,8 @@ def answer_json(job: Any) -> dict[str, Any]:
                 "release": describe(area.release, scenario.gravity),
                 "zone": _rings(area.zone.area.polygon) if finite else [],
                 "driver_warnings": list(getattr(area, "driver_warnings", ())),
+                "clear_distance_m": _finite(getattr(area, "clear_distance_m", None)),
+                "stop_work_wind_m_s": _finite(getattr(area, "stop_work_wind_m_s", None)),
             }
         )
     objects = []
@@ -525,6 +531,7 @@ def answer_json(job: Any) -> dict[str, Any]:
         ],
         "warnings": list(job.warnings),
         "caution": CAUTION_SHORT,
+        "wind_basis": str(getattr(scenario, "wind_basis", "") or ""),
     }
 
 

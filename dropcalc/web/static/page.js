@@ -628,11 +628,17 @@ function showAnswer(answer) {
     fact("Edges", area.heights_text);
     fact("Release", area.release);
     fact("Area to fence", `${Math.round(area.area_m2).toLocaleString("en")} m²`);
+    if (area.clear_distance_m !== null) {
+      fact("Stop work above", area.stop_work_wind_m_s > 0
+        ? `${sig(area.stop_work_wind_m_s)} m/s mean wind at 10 m (zone within the ${sig(area.clear_distance_m)} m available)`
+        : `the ${sig(area.clear_distance_m)} m available is too small even in still air`);
+    }
     card.append(facts);
     for (const w of area.driver_warnings) card.append(el("p", { class: "card-warning" }, w));
     cards.append(card);
   });
   $("#caution-short").textContent = answer.caution;
+  $("#wind-basis").textContent = answer.wind_basis ? `Wind: ${answer.wind_basis}` : "";
   const warnings = $("#warnings");
   warnings.textContent = "";
   for (const w of answer.warnings) warnings.append(el("li", {}, w));
