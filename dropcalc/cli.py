@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-import json
 import math
 import signal
 import sys
@@ -511,12 +510,9 @@ def fall(
         _fail(str(exc))
         return
     if as_json:
-        from dropcalc.present.text import fall_levels
+        from dropcalc.present.json import dumps, fall_json
 
-        out = result.to_json()
-        reached, _ = fall_levels(result)
-        out["levels_reached"] = [level.key for level in reached]
-        typer.echo(json.dumps(out, indent=2, allow_nan=False))
+        typer.echo(dumps(fall_json(result)))
     else:
         typer.echo(printable(render_fall(result, units.value)))
 
@@ -616,15 +612,17 @@ def batch(
         )
         if out is not None:
             require_suffix(out, (".csv", ".xlsx", ".json"), "--out")
-        from dropcalc.analysis.batch_run import run_batch, stream_json, write_run
+        from dropcalc.analysis.batch_run import run_batch
         from dropcalc.io.library import load_library
+        from dropcalc.present.json import write_rows_json
+        from dropcalc.present.tables import write_run
 
         run = run_batch(file, settings, lambda: load_library(library), _progress(as_json))
         try:
             if out is not None:
                 write_run(out, run)
             if as_json:
-                stream_json(sys.stdout, run)
+                write_rows_json(sys.stdout, run.rows())
             else:
                 from dropcalc.present.text import render_batch
 
@@ -833,14 +831,13 @@ def zone(
     except DropcalcError as exc:
         _fail(str(exc))
         return
-    from dropcalc.present.text import render_zone, site_json, zone_json
-
     if as_json:
-        out = zone_json(result, limits)
-        if site_result is not None:
-            out.update(site_json(site_result))
-        typer.echo(json.dumps(out, indent=2, allow_nan=False))
+        from dropcalc.present.json import dumps, zone_json
+
+        typer.echo(dumps(zone_json(result, limits, site_result)))
     else:
+        from dropcalc.present.text import render_zone
+
         typer.echo(printable(render_zone(result, units.value, limits, site_result)))
 
 
@@ -856,6 +853,7 @@ def _write_plan(
     if geojson is not None:
         from dropcalc.analysis.plan import to_geojson
         from dropcalc.io.atomic import write_atomic
+        from dropcalc.present.json import dumps
 
         data = to_geojson(
             site_result.area, plan.site, plan.origin_lat, plan.origin_lon,
@@ -863,7 +861,7 @@ def _write_plan(
              "confidence": site_result.driver[2].settings.confidence,
              "worst_case_radius_m": site_result.worst_case},
         )  # fmt: skip
-        text = json.dumps(data, indent=1)
+        text = dumps(data, indent=1)
         write_atomic(geojson, lambda p: p.write_text(text, encoding="utf-8"))
     if plot is not None:
         from dropcalc.present.plan_plot import plot_plan
@@ -954,7 +952,7 @@ def report(
     try:
         from dropcalc.analysis.job import run_job
         from dropcalc.io.scenario import load_scenario
-        from dropcalc.report.build import summary_json
+        from dropcalc.present.json import report_json
 
         if output.suffix.lower() != ".pdf":
             raise InputError(f"-o must name a .pdf file; got {output.name}")
@@ -965,7 +963,7 @@ def report(
         else:
             with tempfile.TemporaryDirectory(prefix="dropcalc-figures-") as folder:
                 pages = _write_pdf(job, Path(folder), output)
-            summary = summary_json(job, output)
+            summary = report_json(job, output)
             summary["pages"] = pages
     except DropcalcError as exc:
         _fail(str(exc))
@@ -974,7 +972,9 @@ def report(
         _fail(f"cannot write the job's files ({exc.strerror or exc})")
         return
     if as_json:
-        typer.echo(json.dumps(summary, indent=2, allow_nan=False))
+        from dropcalc.present.json import dumps
+
+        typer.echo(dumps(summary))
     else:
         typer.echo(printable(_report_lines(summary)))
         if out_dir is not None:
@@ -986,27 +986,28 @@ def _write_job_files(job: Any, out: Path, pdf: Path) -> dict[str, Any]:
 
     Returns the report summary with ``pages`` and ``files`` (every file written, by role).
     """
-    from dropcalc.io.atomic import write_atomic, write_rows
-    from dropcalc.report.build import summary_json
+    from dropcalc.io.atomic import write_atomic
+    from dropcalc.present.json import dumps, report_json
+    from dropcalc.present.tables import write_rows
 
     figures = out / "figures"
     pages = _write_pdf(job, figures, pdf)
     write_rows(out / "objects.csv", job.object_rows)
-    summary = summary_json(job, pdf)
+    summary = report_json(job, pdf)
     summary["pages"] = pages
     files = {"pdf": str(pdf), "objects_csv": str(out / "objects.csv")}
     for index, area in enumerate(job.work_areas, start=1):
         data = area.geojson
         if data is not None:
             target = out / f"exclusion-area-{index}.geojson"
-            text = json.dumps(data, indent=1)
+            text = dumps(data, indent=1)
             write_atomic(target, lambda p, t=text: p.write_text(t, encoding="utf-8"))
             files[f"geojson_{index}"] = str(target)
     for figure in sorted(figures.glob("*.png")):
         files[f"figure_{figure.stem}"] = str(figure)
     summary["files"] = files
     full = {"summary": summary, "objects": job.object_rows}
-    text = json.dumps(full, indent=2, allow_nan=False)
+    text = dumps(full)
     write_atomic(out / "results.json", lambda p: p.write_text(text, encoding="utf-8"))
     files["results_json"] = str(out / "results.json")
     return summary
@@ -1036,7 +1037,7 @@ def _report_lines(summary: dict[str, Any]) -> str:
 
     lines = [f"Report written: {summary['pdf']} ({summary['pages']} pages)"]
     for area in summary["work_areas"]:
-        if not math.isfinite(area["radius_m"]):
+        if area["radius_m"] is None:  # not finite: carried away (see "not_finite")
             lines.append(f"  {area['name']}: {NO_FINITE_DISTANCE}")
             continue
         lines.append(
@@ -1064,6 +1065,7 @@ def demo(
         from dropcalc.analysis.job import run_job
         from dropcalc.io.atomic import write_atomic
         from dropcalc.io.scenario import load_scenario
+        from dropcalc.present.json import dumps
         from dropcalc.resources import data_path
 
         source = data_path("templates") / "demo"
@@ -1083,7 +1085,7 @@ def demo(
         _fail(str(exc))
         return
     if as_json:
-        typer.echo(json.dumps(summary, indent=2, allow_nan=False))
+        typer.echo(dumps(summary))
         return
     typer.echo(printable(_report_lines(summary)))
     typer.echo(_files_line(out, files).replace("Files in", "Demo files in", 1))
@@ -1182,10 +1184,9 @@ def objects(
                     f"{', '.join(lib.categories())}"
                 )
             chosen = [o for o in chosen if o.category == category]
-        records = [o.to_json() for o in chosen]
         if csv is not None:
-            from dropcalc.io.atomic import write_rows
             from dropcalc.io.library import csv_rows
+            from dropcalc.present.tables import write_rows
 
             require_suffix(csv, (".csv",), "--csv")
             write_rows(csv, csv_rows(chosen))
@@ -1193,7 +1194,9 @@ def objects(
         _fail(str(exc))
         return
     if as_json:
-        typer.echo(json.dumps(records, indent=2, allow_nan=False))
+        from dropcalc.present.json import dumps, object_json
+
+        typer.echo(dumps([object_json(o) for o in chosen]))
         return
     from dropcalc.present.text import render_objects
 
@@ -1216,7 +1219,9 @@ def objects_show(
         _fail(str(exc))
         return
     if as_json:
-        typer.echo(json.dumps(obj.to_json(), indent=2, allow_nan=False))
+        from dropcalc.present.json import dumps, object_json
+
+        typer.echo(dumps(object_json(obj)))
         return
     from dropcalc.present.text import render_object
 

@@ -38,7 +38,8 @@ from typer.testing import CliRunner
 
 from dropcalc.cli import app
 from dropcalc.errors import InputError
-from dropcalc.io.atomic import write_atomic, write_rows
+from dropcalc.io.atomic import write_atomic
+from dropcalc.present.tables import write_rows
 
 runner = CliRunner()
 

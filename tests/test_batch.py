@@ -704,6 +704,7 @@ def test_ten_thousand_rows_are_all_solved(tmp_path):
     items, errors = parse_items(frame, load_library(), settings)
     rows = solve_items(items, settings)
     assert errors == []
+    assert [r["row"] for r in rows] == [item.row for item in items]
     assert len(rows) == 10_000
     assert all(r["impact_energy_max_j"] is not None for r in rows)
 

@@ -44,3 +44,19 @@ def test_command_benchmark_runs():
     result = json.loads(completed.stdout)
     assert result["fall"]["median_s"] > 0.0
     assert len(result["fall"]["times_s"]) == 1
+
+
+TIMINGS = Path(__file__).parents[1] / "benchmarks" / "timings.py"
+
+
+def test_timings_benchmark_runs():
+    # Small sizes: this checks the script works, not how fast anything is.
+    arguments = ["--repeat", "1", "--samples", "500", "--rows", "20", "--json"]
+    completed = subprocess.run(
+        [sys.executable, str(TIMINGS), *arguments], capture_output=True, text=True, timeout=120
+    )
+    assert completed.returncode == 0, completed.stderr
+    result = json.loads(completed.stdout)
+    assert set(result) == {"library", "zone_samples", "batch_rows"}
+    assert (result["zone_samples"]["samples"], result["batch_rows"]["rows"]) == (500, 20)
+    assert all(len(timing["times_s"]) == 1 for timing in result.values()), result

@@ -18,6 +18,7 @@ from typer.testing import CliRunner
 
 from dropcalc.cli import app
 from dropcalc.io.library import load_library
+from dropcalc.present.json import object_json
 
 # Keys every element of `objects --json` carries (the contract).
 OBJECT_FIELDS = (
@@ -219,7 +220,7 @@ def test_objects_show_gives_every_property_with_its_source():
 
 def test_objects_show_json_is_the_full_record():
     record = run_json("objects", "show", HAMMER)
-    assert record == load_library().get(HAMMER).to_json()
+    assert record == object_json(load_library().get(HAMMER))
     for field in (*OBJECT_FIELDS, "mass_source", "size_source", "drag_basis", "dimensions_m"):
         assert record[field] not in (None, ""), field
 

@@ -22,6 +22,7 @@ from dropcalc.errors import InputError
 from dropcalc.physics.release import Release
 from dropcalc.physics.trajectory import WindField, solve_falls
 from dropcalc.physics.wind import wind_spec
+from dropcalc.present.json import fall_json
 from dropcalc.report import figures
 from dropcalc.report.figures import (
     EnergyCurve,
@@ -301,7 +302,7 @@ def test_fall_figure_paths_land_where_the_fall_result_says(tmp_path: Path) -> No
         (True, False),
         (True, True),
     ]
-    report = result.to_json()  # type: ignore[attr-defined]
+    report = fall_json(result)  # type: ignore[arg-type]
     (path,) = trajectory_paths(
         cases[0].release_height,
         np.asarray(cases[0].initial_velocity),

@@ -13,7 +13,6 @@ from __future__ import annotations
 
 import math
 import re
-import time
 import tomllib
 from pathlib import Path
 
@@ -243,16 +242,14 @@ def test_source_combines_mass_and_size_sources():
     assert item.mass_basis == "density"
 
 
-def test_builtin_library_is_fast_and_read_once():
+def test_builtin_library_is_read_once():
+    # Read from the files once per process, then cached; the reading time is measured in
+    # benchmarks/timings.py (library), not asserted here.
     library._builtin_library.cache_clear()
-    times = []
-    for _ in range(3):
-        library._builtin_library.cache_clear()
-        start = time.perf_counter()
-        load_library()
-        times.append(time.perf_counter() - start)
-    assert min(times) < 0.2  # ~30 ms on a quiet machine; CI runs beside other work
-    assert load_library() is load_library()
+    first = load_library()
+    assert load_library() is first
+    library._builtin_library.cache_clear()
+    assert load_library() is not first
 
 
 # --- User files ----------------------------------------------------------------------------------

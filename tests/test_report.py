@@ -17,6 +17,7 @@ import json
 import math
 import re
 import tomllib
+from collections.abc import Callable
 from pathlib import Path
 from typing import Any
 
@@ -190,6 +191,12 @@ def test_report_numbers_equal_zone_json(job: dict[str, Any]) -> None:
     assert area["scatter_m"] == pytest.approx(zone["scatter_m"], rel=0, abs=1e-9)
     assert area["margin_m"] == zone["margin_m"] == 1.5
     assert job["summary"]["confidence"] == zone["confidence"] == 0.95
+
+
+def test_every_report_json_key_is_in_the_glossary(
+    job: dict[str, Any], unlisted_keys: Callable[[Any], list[str]]
+) -> None:
+    assert unlisted_keys(job["summary"]) == []
 
 
 def test_page_one_distance_is_the_radius_rounded_up(job: dict[str, Any]) -> None:
@@ -474,7 +481,7 @@ def _check_feature_collection(data: dict[str, Any], origin: dict[str, float]) ->
     assert polygons >= 1
 
 
-def test_demo_writes_every_file(tmp_path: Path) -> None:
+def test_demo_writes_every_file(tmp_path: Path, unlisted_keys: Callable[[Any], list[str]]) -> None:
     out = tmp_path / "demo"
     summary = json_of("demo", "--out", str(out))
     for name in ("report.pdf", "scenario.toml", "items.csv", "objects.csv", "results.json"):
@@ -502,6 +509,8 @@ def test_demo_writes_every_file(tmp_path: Path) -> None:
     # The closing message names every file written (it prints summary["files"]).
     written = {str(p) for p in out.rglob("*") if p.is_file()}
     assert written == set(summary["files"].values())
+    assert unlisted_keys(summary) == []
+    assert unlisted_keys(results) == []
 
 
 WINDBORNE = """\

@@ -2,75 +2,28 @@
 
 :class:`FallCase` holds validated inputs in SI units; :func:`solve_fall` runs the physics core
 for the given wind and, when that wind is a mean speed, for its gust as well, and returns a
-:class:`FallResult` whose :meth:`FallResult.to_json` is the stable JSON contract.
+:class:`FallResult`; its JSON contract is built by :func:`dropcalc.present.json.fall_json`.
 """
 
 from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
-from typing import Any
 
 import numpy as np
 
-from dropcalc.errors import InputError, require_finite_positive, to_float
+from dropcalc.errors import InputError, to_float
+from dropcalc.model.checks import _check_range, check_object  # check_object re-exported
 from dropcalc.model.limits import (  # re-exported for callers
     CARRIED_AWAY_DISTANCE,
-    CONTACT_AREA_RANGE,
-    DRAG_AREA_RANGE,
     GRAVITY_RANGE,
-    MASS_RANGE,
-    MAX_RELEASE_HEIGHT,
-    MIN_RELEASE_HEIGHT,
 )
 from dropcalc.physics.atmosphere import AirState, air_state
 from dropcalc.physics.drag import drag_parameter
 from dropcalc.physics.impact import Impact, impact_from_solution
-from dropcalc.physics.release import Release, describe, initial_velocity
+from dropcalc.physics.release import Release, initial_velocity
 from dropcalc.physics.trajectory import WindField, solve_falls
 from dropcalc.physics.wind import WindSpec, wind_spec
-from dropcalc.texts import CAUTION_SHORT
-
-
-def _check_range(name: str, value: float, low: float, high: float, unit: str) -> float:
-    v = to_float(name, value, unit)
-    if not (math.isfinite(v) and low <= v <= high):
-        raise InputError(
-            f"{name} must be a finite value from {low:g} to {high:g} {unit}; got {v:g} {unit}"
-        )
-    return v
-
-
-def check_object(
-    mass: float,
-    drag_area: float,
-    height: float,
-    contact_area: float | None = None,
-    drag_area_max: float | None = None,
-) -> None:
-    """Raise InputError unless the object and release height are within the model's ranges.
-
-    Parameters
-    ----------
-    mass : float
-        [kg]
-    drag_area : float
-        Smallest (or only) drag area. [m^2]
-    height : float
-        Release height. [m]
-    contact_area : float or None
-        [m^2]
-    drag_area_max : float or None
-        Largest drag area, >= ``drag_area``. [m^2]
-    """
-    _check_range("mass", mass, *MASS_RANGE, "kg")
-    _check_range("drag_area", drag_area, *DRAG_AREA_RANGE, "m²")
-    require_finite_positive("height", height, "m")
-    _check_range("height", height, MIN_RELEASE_HEIGHT, MAX_RELEASE_HEIGHT, "m")
-    if drag_area_max is not None:
-        _check_range("drag_area_max", drag_area_max, drag_area, DRAG_AREA_RANGE[1], "m²")
-    if contact_area is not None:
-        _check_range("contact_area", contact_area, *CONTACT_AREA_RANGE, "m²")
 
 
 @dataclass(frozen=True)
@@ -154,85 +107,6 @@ class FallResult:
     given: WindCase
     gust: WindCase | None
     warnings: tuple[str, ...]
-
-    def to_json(self) -> dict[str, Any]:
-        """Return the JSON contract (SI, snake case with unit suffixes; see DESIGN.md)."""
-        imp = self.given.impact
-        max_imp = self.given.impact_max_drag or imp
-        case = self.case
-
-        def value(array: np.ndarray | None) -> float | None:
-            if array is None:
-                return None
-            v = float(array[0])
-            return v if math.isfinite(v) else None
-
-        outward = np.radians(case.edge_azimuth)
-        drift = value(imp.drift)
-        away = None
-        if drift is not None:
-            az = np.radians(float(imp.drift_azimuth[0]))
-            away = drift * float(np.cos(az - outward))
-        epa = value(imp.energy_per_area)
-        out: dict[str, Any] = {
-            "landed": bool(imp.landed[0]),
-            "impact_speed_m_s": value(imp.impact_speed),
-            "impact_energy_j": value(imp.kinetic_energy),
-            "fall_time_s": value(imp.fall_time),
-            "drift_m": drift,
-            "terminal_speed_m_s": value(imp.terminal_speed),
-            "impact_angle_deg": value(imp.impact_angle),
-            "air_density_kg_m3": case.air.density,
-            "vertical_impact_speed_m_s": value(imp.vertical_speed),
-            "horizontal_impact_speed_m_s": value(imp.horizontal_speed),
-            "momentum_kg_m_s": value(imp.momentum),
-            "drift_azimuth_deg": value(imp.drift_azimuth),
-            "drift_away_from_edge_m": away,
-            "terminal_speed_fraction": value(imp.terminal_fraction),
-            "height_to_95_percent_terminal_m": value(imp.height_to_95_percent),
-            "energy_per_contact_area_j_m2": epa,
-            "energy_per_contact_area_j_cm2": None if epa is None else epa / 1e4,
-            "mass_kg": case.mass,
-            "drag_area_m2": case.drag_area,
-            "contact_area_m2": case.contact_area,
-            "release_height_m": case.height,
-            "release_mode": case.release.mode,
-            "release": describe(case.release, case.gravity),
-            "edge_azimuth_deg": case.edge_azimuth,
-            "gravity_m_s2": case.gravity,
-            "air_basis": case.air.basis,
-            "wind_speed_10m_m_s": case.wind.speed_10m,
-            "wind_speed_kind": case.wind.kind,
-            "wind_from_deg": case.wind.from_direction_deg,
-            "wind_profile": case.wind.profile,
-            "wind": case.wind.describe(),
-            "wind_used": f"{self.given.label} {self.given.speed_10m:g} m/s at 10 m",
-            "gust_speed_10m_m_s": None if self.gust is None else self.gust.speed_10m,
-            "gust_drift_m": None if self.gust is None else value(self.gust.impact.drift),
-            "gust_impact_energy_j": (
-                None if self.gust is None else value(self.gust.impact.kinetic_energy)
-            ),
-            "object_id": case.object_id,
-            "object_name": case.object_name,
-            "drag_area_max_m2": case.drag_area_max
-            if case.drag_area_max is not None
-            else case.drag_area,
-            "drift_max_m": value(max_imp.drift),
-            "impact_energy_min_j": value(max_imp.kinetic_energy),
-            "impact_speed_min_m_s": value(max_imp.impact_speed),
-            "fall_time_max_s": value(max_imp.fall_time),
-            "terminal_speed_min_m_s": value(max_imp.terminal_speed),
-            "gust_drift_max_m": (
-                None
-                if self.gust is None
-                else value((self.gust.impact_max_drag or self.gust.impact).drift)
-            ),
-            "flight_model": self.flight_model,
-            "lift_off_speed_m_s": self.lift_off_speed,
-            "warnings": list(self.warnings),
-            "caution": CAUTION_SHORT,
-        }
-        return out
 
     @property
     def flight_model(self) -> str:

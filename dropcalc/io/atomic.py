@@ -6,15 +6,12 @@ only when complete (``os.replace`` is atomic on one file system).
 
 from __future__ import annotations
 
-import csv
-import json
 import os
 import tempfile
-from collections.abc import Callable, Sequence
+from collections.abc import Callable
 from pathlib import Path
-from typing import Any
 
-from dropcalc.errors import InputError, require_suffix, shorten
+from dropcalc.errors import InputError, shorten
 
 OUTPUT_FORMATS = (".csv", ".xlsx", ".json")
 
@@ -49,25 +46,3 @@ def write_atomic(path: Path, write: Callable[[Path], None]) -> None:
     finally:
         if os.path.exists(temporary):
             os.unlink(temporary)
-
-
-def write_rows(path: Path, rows: Sequence[dict[str, Any]]) -> None:
-    """Write result rows as CSV, XLSX or JSON, chosen by the file suffix."""
-    from dropcalc.analysis.batch import rows_frame
-
-    suffix = require_suffix(path, OUTPUT_FORMATS, "--out")
-    if suffix == ".json":
-        text = json.dumps(list(rows), indent=2, allow_nan=False)
-        write_atomic(path, lambda p: p.write_text(text + "\n", encoding="utf-8"))
-        return
-    frame = rows_frame(rows)
-    if suffix == ".csv":
-
-        def write_csv(target: Path) -> None:
-            frame.head(0).to_csv(target, index=False, encoding="utf-8")  # the header, plain
-            frame.to_csv(target, mode="a", index=False, header=False, encoding="utf-8",
-                         quoting=csv.QUOTE_NONNUMERIC)  # every text cell quoted  # fmt: skip
-
-        write_atomic(path, write_csv)
-    else:
-        write_atomic(path, lambda p: frame.to_excel(p, index=False, engine="openpyxl"))

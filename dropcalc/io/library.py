@@ -221,32 +221,6 @@ class DropObject:
     glides: bool = field(init=False)
     drag_basis: str = field(init=False)
 
-    def to_json(self) -> dict[str, Any]:
-        """All properties with unit-suffixed keys (the ``objects --json`` contract)."""
-        return {
-            "id": self.id,
-            "name": self.name,
-            "category": self.category,
-            "mass_kg": self.mass,
-            "shape": self.shape,
-            "dimensions_m": dict(self.dimensions),
-            "drag_area_min_m2": self.drag_area_min,
-            "drag_area_typical_m2": self.drag_area_typical,
-            "drag_area_max_m2": self.drag_area_max,
-            "projected_area_mean_m2": self.projected_area_mean,
-            "contact_area_m2": self.contact_area,
-            "hazards": list(self.hazards),
-            "fragile": self.fragile,
-            "material": self.material or contact.DEFAULT_MATERIAL,
-            "glides": self.glides,
-            "mass_basis": self.mass_basis,
-            "mass_source": self.mass_source,
-            "size_source": self.size_source,
-            "source": self.source,
-            "drag_basis": self.drag_basis,
-            "notes": self.notes,
-        }
-
     def __post_init__(self) -> None:
         """Check the values and compute the source string and the drag areas."""
         shape = _shape_name(self.shape)

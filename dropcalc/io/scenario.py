@@ -199,11 +199,11 @@ def load_scenario(path: Path, *, allow_file_references: bool = True) -> Scenario
         objects file is named by its row and column, without quoting the file's content.
     """
     from dropcalc.analysis.batch import KNOWN_COLUMNS, BatchSettings, parse_items, read_table
-    from dropcalc.analysis.fall import MAX_RELEASE_HEIGHT, MIN_RELEASE_HEIGHT
-    from dropcalc.analysis.plan import Site, WorkEdge
     from dropcalc.io.library import load_library
+    from dropcalc.model.limits import MAX_RELEASE_HEIGHT, MIN_RELEASE_HEIGHT
     from dropcalc.model.policy import DEFAULT_RULES, load_policy
     from dropcalc.model.reference_levels import DEFAULT_LEVEL_KEYS, reference_level
+    from dropcalc.model.site import Site, WorkEdge
     from dropcalc.physics.atmosphere import air_state
     from dropcalc.physics.gravity import gravity as local_gravity
     from dropcalc.physics.release import DEFAULT_ROOF_FRICTION, Release
@@ -492,7 +492,7 @@ def load_scenario(path: Path, *, allow_file_references: bool = True) -> Scenario
         areas.append(WorkArea(name, release, site, clear_distance))
 
     library = load_library()
-    from dropcalc.analysis.fall import check_object
+    from dropcalc.model.checks import check_object
 
     raw_objects = data.get("object", [])
     if not isinstance(raw_objects, list):

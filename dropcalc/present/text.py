@@ -9,6 +9,7 @@ import numpy as np
 
 from dropcalc.analysis.fall import CARRIED_AWAY_DISTANCE, FallCase, FallResult
 from dropcalc.physics.impact import Impact
+from dropcalc.physics.release import describe
 from dropcalc.texts import CAUTION_SHORT, area_text, keep_clear_text
 from dropcalc.units import format_quantity
 
@@ -142,7 +143,7 @@ def render_fall(result: FallResult, system: str = "si") -> str:
     header = [
         ("Object", f"{what}mass {_fmt(case.mass, 'mass', system)}, {drag}, "
                    f"contact area {contact}"),
-        ("Release", f"{result.to_json()['release']}, from "
+        ("Release", f"{describe(case.release, case.gravity)}, from "
                     f"{_fmt(case.height, 'length', system)} above the landing surface; "
                     f"the edge faces {case.edge_azimuth:.0f}°"),
         ("Air", f"{_fmt(case.air.density, 'density', system, 4)} ({case.air.basis}); "
@@ -393,76 +394,6 @@ def render_object(obj: object, system: str = "si") -> str:
     return "\n".join(lines)
 
 
-def zone_json(result: object, limits: dict | None = None) -> dict:
-    """The zone JSON contract (DESIGN.md) plus per-object figures and the statement in words."""
-    r = result
-    s = r.settings
-    d = r.driver
-
-    def finite(value: float) -> float | None:
-        return float(value) if math.isfinite(value) else None
-
-    out = {
-        "radius_m": finite(r.radius),
-        "confidence": s.confidence,
-        "drift_m": finite(d.drift),
-        "scatter_m": finite(d.scatter),
-        "margin_m": s.margin,
-        "worst_case_radius_m": finite(r.worst_case),
-        "standard_error_m": finite(d.standard_error),
-        "samples": d.samples,
-        "driving_object": d.obj.name,
-        "driving_object_id": d.obj.object_id or None,
-        "worst_case_object": r.worst_case_driver.obj.name,
-        "height_m": s.height,
-        "release_mode": s.release.mode,
-        "wind_speed_10m_m_s": s.wind.speed_10m,
-        "wind_speed_kind": s.wind.kind,
-        "gust_speed_10m_m_s": r.gust_speed,
-        "turbulence_intensity": r.turbulence_intensity,
-        "ground": s.ground.key,
-        "ground_slope_deg": s.ground_slope,
-        "air_density_kg_m3": s.air.density,
-        "seed": s.seed,
-        "objects": [
-            {
-                "name": z.obj.name,
-                "id": z.obj.object_id or None,
-                "radius_m": finite(z.radius),
-                "drift_m": finite(z.drift),
-                "scatter_m": finite(z.scatter),
-                "standard_error_m": finite(z.standard_error),
-                "worst_case_radius_m": finite(z.worst_case),
-                "max_sampled_m": finite(z.max_sampled),
-                "carried_away_fraction": z.carried_away,
-                "rolled_away_fraction": z.rolled_away,
-                "samples": z.samples,
-                "glides": z.obj.glides,
-                "flight_model": "plate" if z.obj.plate is not None else "point mass",
-            }
-            for z in r.objects
-        ],
-        "after_landing": after_landing_json(r),
-        "statement": zone_statement(r),
-        "not_modelled": "deflection off the structure (scaffold, facade, balconies)",
-        "wind_warning": (
-            NO_TERRAIN_WARNING if s.wind.speed_10m > 0 and s.wind.profile == "uniform" else None
-        ),
-        "caution": CAUTION_SHORT,
-    }
-    if limits is not None:
-        out["barricade_m"] = limits["distance"]
-        out["barricade_highest_wind_m_s"] = limits["wind"]
-        out["barricade_greatest_height_m"] = limits["height"]
-        out["barricade_holds"] = bool(limits["needed"] <= limits["distance"])
-        out["barricade_too_close_in_still_air"] = limits["still_air"] is not None
-        out["barricade_needed_m"] = finite(limits["needed"])
-        out["barricade_needed_in_still_air_m"] = (
-            None if limits["still_air"] is None else finite(limits["still_air"])
-        )
-    return out
-
-
 def barricade_text(limits: dict, system: str = "si") -> str:
     """What a barricade at a given distance holds, or that it is too close, in words.
 
@@ -604,23 +535,6 @@ def zone_statement(result: object, system: str = "si") -> str:
             " It is the object that needs the widest zone; every other listed object needs less."
         )
     return text
-
-
-def site_json(site_result: object) -> dict:
-    """Plan figures of a site zone for the JSON output."""
-    return {
-        "site_radius_m": site_result.radius,
-        "site_worst_case_radius_m": site_result.worst_case,
-        "area_m2": site_result.area.area_m2,
-        "area_max_distance_from_edge_m": site_result.area.max_distance_m,
-        "driving_edge": site_result.driver[0],
-        "segments": [
-            {"edge": name, "segment": index, "radius_m": z.radius,
-             "worst_case_radius_m": z.worst_case, "height_m": z.settings.height,
-             "edge_azimuth_deg": z.settings.edge_azimuth}
-            for name, index, z in site_result.segments
-        ],
-    }  # fmt: skip
 
 
 #: Said when a wind is given without a terrain (or profile): it is then uniform with height.

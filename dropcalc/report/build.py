@@ -337,39 +337,3 @@ def draw_figures(job: JobResult, folder: Path, image_format: str = "png") -> dic
     )  # fmt: skip
     figures["energy_height"] = energy
     return figures
-
-
-def summary_json(job: JobResult, pdf: Path) -> dict[str, Any]:
-    """The ``--json`` summary of a report run."""
-    scenario = job.scenario
-    top = job.highest_energy_row
-    return {
-        "pdf": str(pdf),
-        "scenario": scenario.path.name,
-        "scenario_sha256": scenario.sha256,
-        "confidence": scenario.confidence,
-        "work_areas": [
-            {
-                "name": a.name,
-                "radius_m": a.radius_m,
-                "worst_case_radius_m": a.worst_case_radius_m,
-                "area_m2": a.area_m2,
-                "max_distance_m": a.max_distance_m,
-                "driving_object": a.driving_object,
-                "drift_m": a.drift_m,
-                "scatter_m": a.scatter_m,
-                "margin_m": scenario.margin,
-                "driver_warnings": list(a.driver_warnings),
-                "beyond_building_m2": a.zone.area.beyond_building_m2,
-                "clear_distance_m": a.clear_distance_m,
-                "stop_work_wind_m_s": a.stop_work_wind_m_s,
-            }
-            for a in job.work_areas
-        ],
-        "highest_energy_object": top.get("label") if top is not None else None,
-        "highest_impact_energy_j": (
-            job.object_rows[0].get("impact_energy_max_j") if job.object_rows else None
-        ),
-        "objects": len(job.object_rows),
-        "controls": [{"item": item, "controls": list(controls)} for item, controls in job.controls],
-    }

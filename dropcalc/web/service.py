@@ -610,7 +610,7 @@ def document(kind: str, form_data: Any, cache: JobCache | None = None) -> tuple[
     InputError
         For an unknown kind, or GeoJSON without the site's origin.
     """
-    import json
+    from dropcalc.present.json import dumps, report_json
 
     if kind not in DOCUMENTS:
         raise InputError(f"no such document {kind!r}; known: {', '.join(DOCUMENTS)}")
@@ -638,16 +638,14 @@ def document(kind: str, form_data: Any, cache: JobCache | None = None) -> tuple[
                 ]
             )
         data = {"type": "FeatureCollection", "features": features}
-        return json.dumps(data, indent=1).encode("utf-8"), media_type, name
+        return dumps(data, indent=1).encode("utf-8"), media_type, name
     if kind == "json":
-        from dropcalc.report.build import summary_json
-
-        full = {"summary": summary_json(job, Path(DOCUMENTS["pdf"][1])), "objects": job.object_rows}
-        return json.dumps(full, indent=2, allow_nan=False).encode("utf-8"), media_type, name
+        full = {"summary": report_json(job, Path(DOCUMENTS["pdf"][1])), "objects": job.object_rows}
+        return dumps(full).encode("utf-8"), media_type, name
     with tempfile.TemporaryDirectory(prefix="dropcalc-page-") as folder:
         target = Path(folder) / name
         if kind == "csv":
-            from dropcalc.io.atomic import write_rows
+            from dropcalc.present.tables import write_rows
 
             write_rows(target, job.object_rows)
         else:
