@@ -1126,17 +1126,27 @@ def highest_wind(
             objects, replace(settings, wind=wind, max_samples=INITIAL_SAMPLES), envelope=False
         ).radius
 
-    at_low = radius_at(low) - distance
+    def excess(speed: float) -> float:
+        # log(radius / distance): the radius stays near its still-air value and then grows
+        # steeply with the speed; on the log the regula falsi needs fewer steps.
+        return _log_excess(radius_at(speed), distance)
+
+    at_low = excess(low)
     if at_low > 0:
         return low
-    at_high = radius_at(high) - distance
+    at_high = excess(high)
     if at_high <= 0:
         return high
-    low, _ = _shrink_bracket(
-        lambda speed: radius_at(speed) - distance, (low, at_low), (high, at_high),
-        lambda lo, hi: hi - lo < 0.05,
-    )  # fmt: skip
+    low, _ = _shrink_bracket(excess, (low, at_low), (high, at_high), lambda lo, hi: hi - lo < 0.05)
     return low
+
+
+def _log_excess(radius: float, distance: float) -> float:
+    """log(radius / distance), which has the sign of radius - distance (-inf for 0)."""
+    if distance <= 0:
+        return radius - distance
+    with np.errstate(divide="ignore"):
+        return float(np.log(radius) - np.log(distance))
 
 
 def still_air_radius(objects: Sequence[ZoneObject], settings: ZoneSettings) -> float:
@@ -1177,9 +1187,7 @@ def greatest_height(
     def excess(log_height: float) -> float:
         # log(radius / distance): nearly linear in log(height), as the radius grows about as a
         # power of the height; the regula falsi then needs few steps.
-        radius = radius_at(math.exp(log_height))
-        with np.errstate(divide="ignore"):
-            return float(np.log(radius) - np.log(distance)) if distance > 0 else radius
+        return _log_excess(radius_at(math.exp(log_height)), distance)
 
     at_low = excess(math.log(low))
     if at_low > 0:
