@@ -211,7 +211,9 @@ def _object_table(texts: list[str]) -> str:
     whole = " ".join(texts)
     start = whole.index("numbered as in the legend below the table.")
     end = whole.index("Reference levels used", start)
-    return whole[start:end]
+    # When the legend starts a new page, the page's footer and the next header come between.
+    footer = re.search(r"page \d+ of \d+", whole[start:end])
+    return whole[start : start + footer.start()] if footer else whole[start:end]
 
 
 def _legend(texts: list[str]) -> dict[str, int]:

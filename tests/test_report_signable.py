@@ -281,7 +281,9 @@ def test_stop_work_wind_is_a_line_of_the_answer_page(
     wind = area["stop_work_wind_m_s"]
     assert wind > 0
     first = sheet["first"].replace("\u00a0", " ")
-    assert f"Stop work above a mean wind of {wind:.3g} m/s at 10 m" in first
+    # Three significant figures, trailing zeros kept ("15.0").
+    shown = f"{wind:#.3g}".rstrip(".")
+    assert f"Stop work above a mean wind of {shown} m/s at 10 m" in first
     # 1 m from an 80 ft edge is too small even in still air: said so, with what is needed.
     (tight,) = imperial["summary"]["work_areas"]
     assert tight["stop_work_wind_m_s"] == 0
