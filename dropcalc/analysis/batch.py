@@ -176,6 +176,10 @@ def check_columns(path: Path, raw_names: Sequence[object]) -> list[str]:
     return names
 
 
+#: A sheet's declared range, ``<dimension ref="A1:D20"/>``: its last column and row.
+_DIMENSION_RE = re.compile(r"<(?:\w+:)?dimension\s+ref=\"[A-Za-z]+\d+:([A-Za-z]+)(\d+)\"")
+
+
 def _count_rows(archive: Any, member: Any) -> int:
     """Rows in a sheet's XML, counted block by block (the sheet is never held whole)."""
     rows = 0
@@ -214,7 +218,7 @@ def check_xlsx(path: Path) -> None:
                     continue
                 with archive.open(member) as handle:
                     start = handle.read(4096).decode("utf-8", "replace")
-                ref = re.search(r"<(?:\w+:)?dimension\s+ref=\"[A-Z]+\d+:([A-Z]+)(\d+)\"", start)
+                ref = _DIMENSION_RE.search(start)
                 if ref is None:  # no declared range (a streamed writer): count the rows
                     rows = _count_rows(archive, member)
                     if rows > MAX_LIST_ROWS + 1:
@@ -224,7 +228,7 @@ def check_xlsx(path: Path) -> None:
                         )
                     continue
                 columns = 0
-                for letter in ref[1]:
+                for letter in ref[1].upper():
                     columns = columns * 26 + ord(letter) - ord("A") + 1
                 rows = int(ref[2])
                 if rows > MAX_LIST_ROWS + 1 or columns > MAX_LIST_COLUMNS:
