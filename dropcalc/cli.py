@@ -232,7 +232,13 @@ TerrainOpt = Annotated[
     str | None,
     typer.Option(help="Terrain class: en-0 … en-iv (EN 1991-1-4), asce-b/c/d (ASCE 7)."),
 ]
-ElevationOpt = Annotated[str, typer.Option(help='Site elevation, e.g. "350 m".')]
+ElevationOpt = Annotated[
+    str,
+    typer.Option(
+        help='Site elevation, e.g. "350 m", read as the geopotential height of the ISA '
+        "atmosphere (it differs from the height above sea level by z²/r: 0.16 m at 1000 m)."
+    ),
+]
 AirTempOpt = Annotated[str | None, typer.Option(help='Air temperature, e.g. "5 °C".')]
 PressureOpt = Annotated[str | None, typer.Option(help='Air pressure, e.g. "98 kPa".')]
 HumidityOpt = Annotated[str | None, typer.Option(help='Relative humidity, e.g. "60 %".')]

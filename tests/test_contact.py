@@ -185,6 +185,21 @@ def test_after_landing_never_outruns_its_impact_energy_on_level_ground() -> None
     assert np.all(np.hypot(*landing.offset) <= speed2 / G + speed2 / (2 * 0.4 * G))
 
 
+def test_random_orientations_are_rotations_uniform_over_directions() -> None:
+    # Rotation matrices are orthonormal with determinant 1; for a uniform rotation the body
+    # axis that ends up vertical is uniform on the sphere, so each component of it has mean 0
+    # and variance 1/3 (Archimedes' hat-box theorem: its z component is uniform on [-1, 1]).
+    rotation = random_orientations(200_000, np.random.default_rng(5))
+    eye = np.einsum("nij,nkj->nik", rotation, rotation)
+    assert np.allclose(eye, np.eye(3), atol=1e-12)
+    assert np.allclose(np.linalg.det(rotation), 1.0, atol=1e-12)
+    up = rotation[:, 2, :]
+    assert np.allclose(up.mean(axis=0), 0.0, atol=0.01)
+    assert np.allclose((up**2).mean(axis=0), 1.0 / 3.0, atol=0.01)
+    counts, _ = np.histogram(up[:, 2], bins=10, range=(-1.0, 1.0))
+    assert counts.min() > 0.95 * counts.mean()
+
+
 # --- Restitution, rolling, materials ---------------------------------------------------------
 
 

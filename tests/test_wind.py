@@ -55,8 +55,8 @@ def en_turbulence_intensity(z: float, z0: float, z_min: float) -> float:
 
 
 def asce_kz(z: float, alpha: float, z_g: float) -> float:
-    """ASCE 7-16 Table 26.10-1 note: K_z = 2.01 (z/z_g)^(2/alpha), z held at 4.6 m below."""
-    return 2.01 * (max(z, 4.6) / z_g) ** (2.0 / alpha)
+    """ASCE 7-16 Table 26.10-1 note: K_z = 2.01 (z/z_g)^(2/alpha), z held at 15 ft below."""
+    return 2.01 * (max(z, 15 * 0.3048) / z_g) ** (2.0 / alpha)
 
 
 # --- terrain table --------------------------------------------------------------------------
@@ -80,7 +80,8 @@ def test_asce_exposures_match_table_26_11_1(key: str, values: tuple[float, float
     assert terrain_class.gust_exponent == pytest.approx(1 / alpha, rel=1e-12)  # published
     assert terrain_class.gradient_height == z_g  # published
     assert terrain_class.mean_exponent == pytest.approx(ASCE_MEAN_EXPONENT[key])  # from memory
-    assert terrain_class.minimum_height == pytest.approx(4.6)  # 15 ft, Table 26.10-1 note
+    # 15 ft (Table 26.10-1 note) x 0.3048 m/ft (International Yard and Pound Agreement, 1959)
+    assert terrain_class.minimum_height == pytest.approx(4.572, abs=1e-12)
 
 
 def test_aliases_and_spelling_variants() -> None:

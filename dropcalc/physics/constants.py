@@ -42,8 +42,9 @@ EN_PEAK_TURBULENCE_COEFFICIENT = 7.0
 #: Upper height limit of the EN 1991-1-4 profile formulas, z_max [m]. EN 1991-1-4:2005, 4.3.2.
 EN_MAXIMUM_HEIGHT = 200.0
 
-#: Height below which ASCE 7 holds K_z constant, 15 ft [m]. ASCE 7-16, Table 26.10-1, note.
-ASCE_MINIMUM_HEIGHT = 4.6
+#: Height below which ASCE 7 holds K_z constant, 15 ft = 4.572 m exactly (1 ft = 0.3048 m) [m].
+#: ASCE 7-16, Table 26.10-1, note.
+ASCE_MINIMUM_HEIGHT = 15 * 0.3048
 
 #: Ratio of a gust to the mean speed at 10 m when no terrain model gives one [-].
 #: Common practice, no source (close to the 3-s-gust / hourly-mean ratio of about 1.5 of the

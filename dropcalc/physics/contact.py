@@ -341,10 +341,27 @@ def orientations(down: FloatArray, spin: FloatArray) -> FloatArray:
 
 
 def random_orientations(n: int, rng: np.random.Generator) -> FloatArray:
-    """N rotation matrices uniform over all rotations (the tumbling attitude at the contact)."""
-    down = rng.standard_normal((3, n))
-    down /= np.linalg.norm(down, axis=0)
-    return orientations(down, rng.uniform(0.0, 2.0 * np.pi, n))
+    """Rotation matrices uniform over all rotations (the tumbling attitude at the contact).
+
+    A unit quaternion with four independent standard normal components, normalised, is
+    uniform on the rotation group ([SHOEMAKE-1992], from memory); R is its rotation matrix.
+    """
+    w, x, y, z = rng.standard_normal((4, n))
+    norm = 2.0 / (w * w + x * x + y * y + z * z)
+    xx, yy, zz = x * x * norm, y * y * norm, z * z * norm
+    xy, xz, yz = x * y * norm, x * z * norm, y * z * norm
+    wx, wy, wz = w * x * norm, w * y * norm, w * z * norm
+    rotation = np.empty((n, 3, 3))
+    rotation[:, 0, 0] = 1.0 - yy - zz
+    rotation[:, 0, 1] = xy - wz
+    rotation[:, 0, 2] = xz + wy
+    rotation[:, 1, 0] = xy + wz
+    rotation[:, 1, 1] = 1.0 - xx - zz
+    rotation[:, 1, 2] = yz - wx
+    rotation[:, 2, 0] = xz - wy
+    rotation[:, 2, 1] = yz + wx
+    rotation[:, 2, 2] = 1.0 - xx - yy
+    return rotation
 
 
 @dataclass(frozen=True)
@@ -720,9 +737,9 @@ def after_landing(
     length = np.hypot(axis[0], axis[1])
     axis = np.where(length > 1e-12, axis / np.where(length > 1e-12, length, 1.0), heading)
 
-    def later_gyration(direction: FloatArray, lanes: NDArray[np.intp]) -> FloatArray:
+    def later_gyration(east: FloatArray, north: FloatArray, lanes: NDArray[np.intp]) -> FloatArray:
         if bar:  # rotation axis normal to the travel: its cosine with the bar's axis
-            cosine = direction[1] * axis[0, lanes] - direction[0] * axis[1, lanes]
+            cosine = north * axis[0, lanes] - east * axis[1, lanes]
             k2_axis, k2_across = shape.gyration[2], shape.gyration[0]
             return k2_axis * cosine**2 + k2_across * (1.0 - cosine**2)
         if shape.shape == "sphere":
@@ -731,27 +748,34 @@ def after_landing(
 
     radius = shape.rest_radius
     hops = np.zeros(n)
-    travel = np.zeros((2, n))
     contacts = np.ones(n)
+    # Components as 1-D arrays: gathering lanes from them is much cheaper than from (2, n).
+    h_e, h_n = horizontal[0].copy(), horizontal[1].copy()  # horizontal velocity
+    s_e, s_n = spin[0].copy(), spin[1].copy()  # horizontal spin vector
+    d_e, d_n = heading[0].copy(), heading[1].copy()  # direction of travel
+    t_e, t_n = np.zeros(n), np.zeros(n)  # distance hopped
     # Bodies still moving vertically: rebounding, or still falling (pivoted on a corner).
     lanes = np.flatnonzero((vertical > STOP_SPEED) | (vertical < 0.0))
     for _ in range(MAX_LATER_CONTACTS):
         if lanes.size == 0:
             break
         # Only the lanes still hopping are computed (a centred contact in closed form).
-        along = horizontal[:, lanes]
-        up = vertical[lanes]
-        step = along * np.where(up > 0.0, 2.0 * up / g, 0.0)
-        travel[:, lanes] += step
-        hops[lanes] += np.hypot(step[0], step[1])
-        speed = np.hypot(along[0], along[1])
+        along_e, along_n, up = h_e[lanes], h_n[lanes], vertical[lanes]
+        flight = np.where(up > 0.0, 2.0 * up / g, 0.0)
+        t_e[lanes] += along_e * flight
+        t_n[lanes] += along_n * flight
+        speed = np.hypot(along_e, along_n)
+        hops[lanes] += speed * flight
         moving = speed > 1e-12
-        direction = np.where(moving, along / np.where(moving, speed, 1.0), heading[:, lanes])
-        normal_axis = np.vstack([direction[1], -direction[0]])
-        k2 = later_gyration(direction, lanes)
-        omega = np.einsum("in,in->n", spin[:, lanes], normal_axis)
-        # Never more spin energy than the body carried: k^2 may differ from the last contact.
-        omega *= np.sqrt(np.minimum(1.0, gyration[lanes] / k2))
+        inverse = 1.0 / np.where(moving, speed, 1.0)
+        east = np.where(moving, along_e * inverse, d_e[lanes])
+        north = np.where(moving, along_n * inverse, d_n[lanes])
+        k2 = later_gyration(east, north, lanes)
+        # Spin about the horizontal axis (north, -east) normal to the travel; never more spin
+        # energy than the body carried (k^2 may differ from the last contact).
+        omega = (s_e[lanes] * north - s_n[lanes] * east) * np.sqrt(
+            np.minimum(1.0, gyration[lanes] / k2)
+        )
         approach = np.abs(up)
         e = normal_restitution(e_ref[lanes], approach)
         # Centred contact (lever 0, depth -R): W_tn = 0, so the normal impulse is (1 + e) v
@@ -763,13 +787,18 @@ def after_landing(
         friction = mu[lanes]
         sticks = friction * normal * w_tt >= np.abs(slip)
         tangential = np.where(sticks, -slip / w_tt, -friction * np.sign(slip) * normal)
-        horizontal[:, lanes] = (speed + tangential) * direction
+        kept = speed + tangential
+        h_e[lanes], h_n[lanes] = kept * east, kept * north
         vertical[lanes] = e * approach
-        spin[:, lanes] = (omega + radius * tangential / k2) * normal_axis
+        omega = omega + radius * tangential / k2
+        s_e[lanes], s_n[lanes] = omega * north, -omega * east
         gyration[lanes] = k2
-        heading[:, lanes] = direction
+        d_e[lanes], d_n[lanes] = east, north
         contacts[lanes] += 1.0
         lanes = lanes[vertical[lanes] > STOP_SPEED]
+    horizontal = np.vstack([h_e, h_n])
+    heading = np.vstack([d_e, d_n])
+    travel = np.vstack([t_e, t_n])
     vertical = np.minimum(vertical, STOP_SPEED)  # what is left is below the hop threshold
 
     # Slide, or for a round body skid until it rolls and roll out, each down the slope.

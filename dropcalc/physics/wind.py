@@ -200,7 +200,7 @@ _EN_SOURCE = "EN 1991-1-4:2005, Table 4.1 (z0, z_min); no power-law exponent is 
 _ASCE = "ASCE 7-16"
 _ASCE_SOURCE = (
     "ASCE 7-16, Table 26.11-1: alpha and z_g published; mean-hourly exponent alpha-bar "
-    "from memory [mem]; minimum height 4.6 m (15 ft) from the note to Table 26.10-1"
+    "from memory [mem]; minimum height 15 ft = 4.572 m from the note to Table 26.10-1"
 )
 
 #: The terrain classes, by key. EN classes use the log law; ASCE exposures the power law.
@@ -758,9 +758,9 @@ def wind_spec(
 
     Resolution order: a terrain class gives the profile and its parameters (EN category: log
     law with its z0 and z_min; ASCE exposure: power law with the mean or gust exponent matching
-    ``kind`` and z_min = 4.6 m). An explicit ``exponent`` or ``roughness_length`` overrides
-    the terrain's (and implies the power or log law if ``profile`` is not given). With neither
-    a terrain nor a profile nor a parameter, the profile is uniform.
+    ``kind`` and z_min = 15 ft = 4.572 m). An explicit ``exponent`` or ``roughness_length``
+    overrides the terrain's (and implies the power or log law if ``profile`` is not given).
+    With neither a terrain nor a profile nor a parameter, the profile is uniform.
 
     Parameters
     ----------
