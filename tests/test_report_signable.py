@@ -165,6 +165,8 @@ def test_page_one_does_not_disown_a_sheet_the_plate_model_covers(sheet: dict[str
     assert any("lifts off" in w for w in area["driver_warnings"]), area
     assert "Warning: the distance is set by Plywood half sheet" in beside, beside
     assert "lifts off above about" in beside, beside
+    # ... as advice on storing it, not as a doubt on the distance (issue 11).
+    assert "may be too small" not in beside, beside
 
 
 def test_page_one_says_what_is_reached_only_over_or_around_the_building(

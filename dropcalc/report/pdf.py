@@ -520,11 +520,18 @@ def _work_area_box(
         ),
     ]
     if area.driver_warnings:
+        # A sheet's lift-off wind is advice on storing it, not a doubt on the distance (the
+        # plate model covers its flight); only the other warnings say the distance may be short.
+        doubts = [w for w in area.driver_warnings if not w.startswith("lying flat on a roof")]
+        tail = (
+            "The computed distance may be too small for it; see the warnings below."
+            if doubts
+            else "Weigh it down or store it flat."
+        )
         headline.append(
             Paragraph(
                 f"<b>Warning:</b> the distance is set by {_text(area.driving_object)}, which "
-                f"carries a warning: {_text('; '.join(area.driver_warnings))}. The computed "
-                "distance may be too small for it; see the warnings below.",
+                f"carries a warning: {_text('; '.join(area.driver_warnings))}. {tail}",
                 styles["driver_warning"],
                 bulletText="!",
             )
