@@ -377,6 +377,7 @@ def mutations(draw: st.DrawFn) -> Mutation:
     return Mutation(BASE[:position] + junk + BASE[position:])
 
 
+@pytest.mark.slow  # 30 report runs (Monte Carlo, figures, PDF): CI runs it, the default run not
 @given(mutation=mutations(), latin_1=st.booleans())
 @settings(COMMON, max_examples=30)
 def test_scenario_mutations_exit_0_with_a_pdf_or_2_naming_file_key_and_line(
