@@ -37,6 +37,34 @@ def load_text(name: str, scenario_dir: Path | None = None) -> str:
     return (data_path("templates") / name).read_text(encoding="utf-8")
 
 
+def _after_landing_row(name: str, zone: Any) -> tuple[str, str]:
+    """How much of a work area's radius rests on the after-landing inputs, in words."""
+    d = zone.driver
+    material = d.obj.material_class
+    labels = {
+        "restitution": "restitution",
+        "friction": "friction",
+        "rolling_resistance": "rolling resistance",
+        "fragment_speed": "fragment speed",
+    }
+    parts = [
+        f"{labels[row.parameter]} {row.low:.2g}/{row.high:.2g}: "
+        f"{row.radius_low:.3g}/{row.radius_high:.3g} m"
+        for row in d.sensitivity
+        if row.parameter != "all"
+    ]
+    every = [row for row in d.sensitivity if row.parameter == "all"]
+    text = f"{d.obj.name} ({material.label}): radius {zone.radius:.3g} m"
+    if every:
+        text += (
+            f"; {every[0].radius_low:.3g} m with every after-landing input at its short end, "
+            f"{every[0].radius_high:.3g} m at its long end"
+        )
+    if parts:
+        text += " (" + "; ".join(parts) + ")"
+    return (f"Bounce and slide, {name}", text)
+
+
 def _code_rules(areas: list[WorkAreaResult]) -> list[tuple[str, str, str]]:
     rules = []
     for area in areas:
@@ -179,6 +207,7 @@ def build_report(job: JobResult, figure_dir: Path) -> ReportData:
                 "first contact as a rigid-body impact with friction at a random orientation; "
                 f"ground slope {scenario.ground_slope:g}° (taken to fall away from the edge)",
             ),
+            *(_after_landing_row(area.name, area.zone.driver[2]) for area in job.work_areas),
             (
                 "Monte Carlo precision",
                 f"standard error below {100 * scenario.precision:g} % "
