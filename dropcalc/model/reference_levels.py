@@ -90,8 +90,8 @@ _LEVELS = (
         79.0,
         "energy",
         "DoD Explosives Safety Standards DESR 6055.09; DDESB Technical Paper 12: 58 ft·lbf, "
-        "whose metric value the standard prints as 79 J (used here); 58 ft·lbf is 78.6 J "
-        "exactly (1 ft·lbf = 1.355818 J)",
+        "whose metric value the standard prints as 79 J (used here); 58 ft·lbf converts to "
+        "78.6 J",
     ),
     ReferenceLevel(
         "cadaver-skull-28j",
