@@ -216,7 +216,7 @@ def zone_json(
     is kept beside it with the same value for readers of earlier output. ``precision`` is the
     target relative standard error of the radius (``--precision``, ``ZoneSettings.relative_error``).
     """
-    from dropcalc.present.text import NO_TERRAIN_WARNING, after_landing_json, zone_statement
+    from dropcalc.present.text import NO_TERRAIN_WARNING, zone_statement
 
     s = result.settings
     d = result.driver
@@ -281,6 +281,53 @@ def zone_json(
     if site is not None:
         out.update(site_json(site))
     return json_safe(out)
+
+
+def after_landing_json(result: ZoneResult) -> dict[str, Any]:
+    """The after-landing model of the driving object: its inputs, sources and sensitivity.
+
+    Part of :func:`zone_json` (key ``after_landing``); non-finite sensitivity radii are left to
+    :func:`json_safe` there.
+    """
+    from dropcalc.physics import contact
+
+    s, d = result.settings, result.driver
+    obj, ground = d.obj, s.ground
+    material = obj.material_class
+    return {
+        "model": "first contact as a planar rigid-body impact with Coulomb friction and "
+        "energetic restitution at a random orientation; then hops, and a slide or a skid and "
+        "roll; an object that breaks throws fragments instead",
+        "object": obj.name,
+        "material": material.key,
+        "restitution_on_concrete": list(material.restitution),
+        "restitution_source": material.restitution_source,
+        "restitution_reference_speed_m_s": contact.REFERENCE_SPEED,
+        "restitution_speed_exponent": contact.RESTITUTION_SPEED_EXPONENT,
+        "ground_restitution_factor": list(ground.restitution_factor),
+        "friction": list(ground.friction),
+        "rolling_resistance": list(ground.rolling_resistance) if obj.rolls else None,
+        "ground_source": ground.source,
+        "ground_slope_deg": s.ground_slope,
+        "break_speed_m_s": obj.break_speed,
+        "break_source": material.break_source if obj.fragile else None,
+        "fragment_speed_fraction": (
+            list(contact.FRAGMENT_SPEED_FRACTION) if obj.break_speed is not None else None
+        ),
+        "fragment_angle_deg": (
+            list(contact.FRAGMENT_ANGLE) if obj.break_speed is not None else None
+        ),
+        "sensitivity": [
+            {
+                "parameter": row.parameter,
+                "low": row.low,
+                "high": row.high,
+                "radius_at_low_m": row.radius_low,
+                "radius_at_high_m": row.radius_high,
+            }
+            for row in d.sensitivity
+        ],
+    }
 
 
 def site_json(site_result: SiteZone) -> dict[str, Any]:

@@ -423,49 +423,6 @@ def barricade_text(limits: dict, system: str = "si") -> str:
     )
 
 
-def after_landing_json(result: object) -> dict:
-    """The after-landing model of the driving object: its inputs, sources and sensitivity."""
-    from dropcalc.physics import contact
-
-    s, d = result.settings, result.driver
-    obj, ground = d.obj, s.ground
-    material = obj.material_class
-    return {
-        "model": "first contact as a planar rigid-body impact with Coulomb friction and "
-        "energetic restitution at a random orientation; then hops, and a slide or a skid and "
-        "roll; an object that breaks throws fragments instead",
-        "object": obj.name,
-        "material": material.key,
-        "restitution_on_concrete": list(material.restitution),
-        "restitution_source": material.restitution_source,
-        "restitution_reference_speed_m_s": contact.REFERENCE_SPEED,
-        "restitution_speed_exponent": contact.RESTITUTION_SPEED_EXPONENT,
-        "ground_restitution_factor": list(ground.restitution_factor),
-        "friction": list(ground.friction),
-        "rolling_resistance": list(ground.rolling_resistance) if obj.rolls else None,
-        "ground_source": ground.source,
-        "ground_slope_deg": s.ground_slope,
-        "break_speed_m_s": obj.break_speed,
-        "break_source": material.break_source if obj.fragile else None,
-        "fragment_speed_fraction": (
-            list(contact.FRAGMENT_SPEED_FRACTION) if obj.break_speed is not None else None
-        ),
-        "fragment_angle_deg": (
-            list(contact.FRAGMENT_ANGLE) if obj.break_speed is not None else None
-        ),
-        "sensitivity": [
-            {
-                "parameter": row.parameter,
-                "low": row.low if math.isfinite(row.low) else None,
-                "high": row.high if math.isfinite(row.high) else None,
-                "radius_at_low_m": row.radius_low if math.isfinite(row.radius_low) else None,
-                "radius_at_high_m": row.radius_high if math.isfinite(row.radius_high) else None,
-            }
-            for row in d.sensitivity
-        ],
-    }
-
-
 def after_landing_lines(result: object, system: str = "si") -> list[tuple[str, str]]:
     """Rows for the terminal: the driving object's after-landing inputs and their weight."""
     d = result.driver
