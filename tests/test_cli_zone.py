@@ -334,3 +334,14 @@ def test_plot_without_a_site_draws_the_zone_around_a_stretch_of_edge(tmp_path: P
     result = invoke("--height", "18 m", *BRICK, "--plot", str(target))
     assert result.exit_code == 0, result.output
     assert target.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"  # PNG signature (ISO/IEC 15948)
+
+
+def test_a_tube_that_rolls_away_down_a_slope_gets_no_distance_and_is_named() -> None:
+    # On a 10 deg slope a rolling tube accelerates while sin(10 deg) / (1 + I/(m r^2)) =
+    # 0.174 / 1.85 = 0.094 exceeds its rolling resistance (0.01-0.03 on concrete): it never
+    # stops (Halliday, Resnick and Walker, ch. 11), so no distance can be promised.
+    data = zone_json("--height", "10 m", "--object", "scaffold-tube-steel-1m", "--ground-slope",
+                     "10 deg")  # fmt: skip
+    assert data["radius_m"] is None
+    assert data["objects"][0]["rolled_away_fraction"] > 0.01
+    assert "rolled away down the 10° slope" in data["statement"]

@@ -473,6 +473,14 @@ def zone_statement(result: object, system: str = "si") -> str:
     s = r.settings
     pct = f"{100 * s.confidence:g} %"
     rest = d.radius - s.margin
+    if not math.isfinite(d.radius) and d.rolled_away > d.carried_away:
+        return (
+            f"No distance can be given: more than {100 - 100 * s.confidence:g} % of simulated "
+            f"drops of the {d.obj.name} slid or rolled away down the "
+            f"{s.ground_slope:g}° slope without stopping: no model can promise where it stops "
+            "on open ground. Keep it from rolling off (stops, a level landing area) or stop "
+            "the work."
+        )
     if not math.isfinite(d.radius):
         return (
             f"No distance can be given: more than {100 - 100 * s.confidence:g} % of simulated "
@@ -525,6 +533,12 @@ def render_zone(
                 f"WARNING: {100 * z.carried_away:.3g} % of drops of {z.obj.name} were "
                 f"carried beyond {CARRIED_AWAY_DISTANCE / 1000:g} km by the wind: it is "
                 "windborne and no zone can bound it.",
+                90))  # fmt: skip
+        if z.rolled_away > 0:
+            lines.extend(textwrap.wrap(
+                f"WARNING: {100 * z.rolled_away:.3g} % of drops of {z.obj.name} slid or rolled "
+                f"away down the {s.ground_slope:g}° slope without stopping: it rolls out of any "
+                "area a zone can give.",
                 90))  # fmt: skip
     lines.extend(textwrap.wrap(zone_statement(r, system), 90))
     lines.append("")
