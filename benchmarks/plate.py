@@ -28,6 +28,7 @@ import numpy as np
 from dropcalc.analysis.plate_flight import PLATE_ZONE_TOLERANCE, sample_attitudes
 from dropcalc.analysis.zone import ZONE_TOLERANCE, ZoneSettings, compute_zone, zone_object
 from dropcalc.io.library import load_library
+from dropcalc.model.conditions import Conditions
 from dropcalc.physics.plate import PlateGeometry, solve_plate_falls
 from dropcalc.physics.trajectory import WindField, solve_falls
 from dropcalc.physics.wind import wind_spec
@@ -70,7 +71,9 @@ def run(cases: int, seed: int, repeat: int) -> dict:
     plate_seconds = _best_of(repeat, plates)
     point_seconds = _best_of(repeat, points)
 
-    settings = ZoneSettings(height=17.5, wind=wind_spec(8.0, terrain="suburban"))
+    settings = ZoneSettings(
+        height=17.5, conditions=Conditions(wind=wind_spec(8.0, terrain="suburban"))
+    )
     sheet = zone_object(obj)
     as_point = replace(sheet, plate=None)
     zone_plate = _best_of(1, lambda: compute_zone([sheet], settings))

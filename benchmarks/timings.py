@@ -53,11 +53,14 @@ def zone_samples(samples: int) -> Callable[[], object]:
 
     from dropcalc.analysis.zone import ZoneSettings, sample_object, zone_object
     from dropcalc.io.library import load_library
+    from dropcalc.model.conditions import Conditions
     from dropcalc.physics.release import Release
     from dropcalc.physics.wind import wind_spec
 
     obj = zone_object(load_library().get("combination-spanner-19mm"))
-    settings = ZoneSettings(height=15.0, release=Release("push", speed=2.0), wind=wind_spec(8.0))
+    settings = ZoneSettings(
+        height=15.0, conditions=Conditions(release=Release("push", speed=2.0), wind=wind_spec(8.0))
+    )
     seeds = iter(range(1_000_000))
     return lambda: sample_object(obj, settings, samples, np.random.default_rng(next(seeds)))
 
@@ -68,6 +71,7 @@ def batch_rows(rows: int, folder: Path) -> Callable[[], object]:
 
     from dropcalc.analysis.batch import BatchSettings, parse_items, read_table, solve_items
     from dropcalc.io.library import load_library
+    from dropcalc.model.conditions import Conditions
     from dropcalc.physics.wind import wind_spec
 
     library = load_library()
@@ -84,7 +88,7 @@ def batch_rows(rows: int, folder: Path) -> Callable[[], object]:
     ]
     path = folder / "rows.csv"
     path.write_text("id,label,mass,drag_area,height\n" + "\n".join(lines) + "\n", "utf-8")
-    settings = BatchSettings(wind=wind_spec(12.0, terrain="suburban"))
+    settings = BatchSettings(conditions=Conditions(wind=wind_spec(12.0, terrain="suburban")))
 
     def work() -> object:
         items, errors = parse_items(read_table(path), library, settings)

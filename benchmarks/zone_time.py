@@ -19,6 +19,7 @@ import numpy as np
 
 from dropcalc.analysis.zone import ZoneSettings, compute_zone, sample_object, zone_object
 from dropcalc.io.library import load_library
+from dropcalc.model.conditions import Conditions
 from dropcalc.physics.wind import wind_spec
 
 #: (object id, work height [m], mean wind at 10 m [m/s]): the issue-10 table's cases.
@@ -36,7 +37,11 @@ def run(samples: int, repeat: int) -> dict:
         obj = zone_object(library.get(object_id))
         settings = ZoneSettings(
             height=height,
-            wind=wind_spec(wind, profile="log", roughness_length=0.3) if wind else wind_spec(0.0),
+            conditions=Conditions(
+                wind=wind_spec(wind, profile="log", roughness_length=0.3)
+                if wind
+                else wind_spec(0.0)
+            ),
             max_samples=samples,
             relative_error=0.2,  # one round of ``samples``: the time of a fixed sample count
         )

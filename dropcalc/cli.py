@@ -2,13 +2,16 @@
 
 from __future__ import annotations
 
+import inspect
 import math
 import signal
 import sys
-from dataclasses import dataclass
+from collections.abc import Callable
+from dataclasses import replace
 from enum import StrEnum
+from functools import partial
 from pathlib import Path
-from typing import Annotated, Any
+from typing import TYPE_CHECKING, Annotated, Any
 
 import typer
 from typer.core import TyperGroup, TyperOption
@@ -33,6 +36,9 @@ def _flag_type(self: TyperOption, ctx: Any) -> str | None:
 _OPTION_TYPE = TyperOption.display_type_rich
 TyperOption.display_type_rich = _flag_type  # type: ignore[method-assign]
 
+if TYPE_CHECKING:  # imported where used: `dropcalc --help` loads no numerics
+    from dropcalc.model.conditions import Conditions
+
 
 class _OneLineErrors(TyperGroup):
     """Command group whose usage errors (bad choice, unknown option) are one line, exit 2."""
@@ -40,7 +46,7 @@ class _OneLineErrors(TyperGroup):
     def main(self, *args: Any, standalone_mode: bool = True, **kwargs: Any) -> Any:
         """Run the command line; print click's usage errors as one line instead of a box."""
         try:
-            result = super().main(*args, standalone_mode=False, **kwargs)
+            result = super().main(*args, standalone_mode=False, **kwargs)  # type: ignore[misc]
             code = result if isinstance(result, int) else 0
         except typer.TyperException as exc:  # usage errors: bad choice, unknown option
             message = exc.format_message().strip()
@@ -162,12 +168,11 @@ _OPTION_OF_FIELD = {
 }
 
 
-def _fail(message: str) -> None:
+def _fail(exc: DropcalcError) -> None:
     """Print one error line to stderr, naming the option where the model named a field."""
     # A value the user typed may hold a line break or be huge: keep one readable line.
-    message = one_line(message)
-    first = message.split(" ", 1)[0].rstrip(":")
-    option = _OPTION_OF_FIELD.get(first)
+    message = one_line(str(exc))
+    option = _OPTION_OF_FIELD.get(exc.field or "")
     if option is not None:
         message = f"{option}: {message}"
     typer.echo(f"dropcalc: error: {message}", err=True)
@@ -176,8 +181,13 @@ def _fail(message: str) -> None:
 
 def _q(value: str | None, kind: str, option: str) -> float | None:
     """Parse an optional quantity typed at the command line into SI."""
-    if value is None:
-        return None
+    from dropcalc.units import parse_optional_quantity
+
+    return parse_optional_quantity(value, kind, option)
+
+
+def _quantity(value: str, kind: str, option: str) -> float:
+    """Parse a quantity typed at the command line into SI."""
     from dropcalc.units import parse_quantity
 
     return parse_quantity(value, kind, option)
@@ -199,8 +209,8 @@ def _carrier(value: str | None) -> tuple[float, float, float]:
     speeds = []
     for p in parts:
         text = f"{p} {unit}".strip() if unit and len(p.split()) == 1 else p
-        speeds.append(_q(text, "speed", "--carrier-velocity"))
-    return (speeds[0], speeds[1], speeds[2])  # type: ignore[return-value]
+        speeds.append(_quantity(text, "speed", "--carrier-velocity"))
+    return (speeds[0], speeds[1], speeds[2])
 
 
 # Options shared by several commands: declared once.
@@ -259,61 +269,56 @@ LibraryOpt = Annotated[
 ]
 
 
-@dataclass(frozen=True)
-class _Environment:
-    air: Any
-    wind: Any
-    gravity: float
+#: The options that set the conditions of a drop (air, wind, gravity), shared by ``fall``,
+#: ``batch`` and ``zone``: declared once and added to each by :func:`_condition_options`, in
+#: this order before the command's ``release`` option (``--edge-azimuth`` before ``library``).
+_CONDITION_OPTIONS: tuple[tuple[str, Any, Any], ...] = (
+    ("wind", WindOpt, "0"),
+    ("wind_kind", WindKindOpt, SpeedKind.mean),
+    ("wind_from", WindFromOpt, None),
+    ("wind_profile", WindProfileOpt, None),
+    ("wind_exponent", WindExponentOpt, None),
+    ("roughness", RoughnessOpt, None),
+    ("terrain", TerrainOpt, None),
+    ("wind_measured", WindMeasuredOpt, "site"),
+    ("elevation", ElevationOpt, "0"),
+    ("air_temp", AirTempOpt, None),
+    ("pressure", PressureOpt, None),
+    ("humidity", HumidityOpt, None),
+    ("air_density", AirDensityOpt, None),
+    ("latitude", LatitudeOpt, None),
+)
+_EDGE_OPTION = ("edge_azimuth", EdgeAzimuthOpt, 90.0)
 
 
-def _environment(
-    *,
-    wind: str,
-    wind_kind: SpeedKind,
-    wind_from: str | None,
-    wind_profile: ProfileName | None,
-    wind_measured: str = "site",
-    wind_exponent: float | None = None,
-    roughness: str | None,
-    terrain: str | None,
-    elevation: str,
-    air_temp: str | None,
-    pressure: str | None,
-    humidity: str | None,
-    air_density: str | None,
-    latitude: float | None,
-    edge_azimuth: float,
-) -> _Environment:
-    """Air, wind and gravity from the shared options (raises InputError)."""
-    from dropcalc.physics.atmosphere import air_state
-    from dropcalc.physics.gravity import gravity as local_g
-    from dropcalc.physics.wind import wind_at_site, wind_spec
-    from dropcalc.units import parse_direction
+def _condition_options(command: Callable[..., None]) -> Callable[..., None]:
+    """Add the shared condition options to a command; it receives them in ``**conditions``.
 
-    if not math.isfinite(edge_azimuth):
-        raise InputError(
-            f"--edge-azimuth must be a finite compass angle in degrees; got {edge_azimuth}"
+    typer reads a command's options from its signature: the signature shown to it gets the
+    options of :data:`_CONDITION_OPTIONS` before ``release`` and ``--edge-azimuth`` before
+    ``library``, so ``--help`` lists them where they always stood.
+    """
+    signature = inspect.signature(command, eval_str=True)
+    params = [p for p in signature.parameters.values() if p.kind is not p.VAR_KEYWORD]
+
+    def option(name: str, annotation: Any, default: Any) -> inspect.Parameter:
+        return inspect.Parameter(
+            name, inspect.Parameter.POSITIONAL_OR_KEYWORD, default=default, annotation=annotation
         )
-    elevation_m = float(_q(elevation, "length", "--elevation"))
-    air = air_state(
-        elevation=elevation_m,
-        temperature=_q(air_temp, "temperature", "--air-temp"),
-        pressure=_q(pressure, "pressure", "--pressure"),
-        relative_humidity=_q(humidity, "fraction", "--humidity"),
-        density=_q(air_density, "density", "--air-density"),
-    )
-    default_from = (edge_azimuth + 180.0) % 360.0
-    wind_model = wind_spec(
-        float(_q(wind, "speed", "--wind")),
-        kind=wind_kind.value,
-        from_direction=parse_direction(wind_from, "--wind-from") if wind_from else default_from,
-        profile=wind_profile.value if wind_profile else None,
-        exponent=wind_exponent,
-        roughness_length=_q(roughness, "length", "--roughness"),
-        terrain=terrain,
-    )
-    wind_model = wind_at_site(wind_model, wind_measured.strip().lower())
-    return _Environment(air, wind_model, local_g(latitude, elevation_m))
+
+    at = [p.name for p in params].index("release")
+    params[at:at] = [option(*spec) for spec in _CONDITION_OPTIONS]
+    at = [p.name for p in params].index("library")
+    params.insert(at, option(*_EDGE_OPTION))
+    command.__signature__ = signature.replace(parameters=params)  # type: ignore[attr-defined]
+    return command
+
+
+def _conditions(options: dict[str, Any]) -> Conditions:
+    """The conditions from a command's shared options (raises InputError); release: a drop."""
+    from dropcalc.model.conditions import conditions_from_options
+
+    return conditions_from_options(options)
 
 
 def _release(
@@ -358,20 +363,21 @@ def _drag_area(drag_area: str | None, cd: float | None, area: str | None) -> flo
             f"(got --drag-area {drag_area} and --cd {cd} --area {area})"
         )
     if drag_area is not None:
-        return float(_q(drag_area, "area", "--drag-area"))
+        return _quantity(drag_area, "area", "--drag-area")
     if cd is None and area is None:
         return None
     if cd is None or area is None:
         raise InputError("--cd and --area go together (or give --drag-area, Cd·A)")
     if not (math.isfinite(cd) and 0 < cd <= 5):
         raise InputError(f"--cd must be between 0 and 5 (exclusive of 0); got {cd:g}")
-    area_m2 = float(_q(area, "area", "--area"))
+    area_m2 = _quantity(area, "area", "--area")
     if not area_m2 > 0:
         raise InputError(f"--area must be an area > 0 m²; got {area}")
     return cd * area_m2
 
 
 @app.command()
+@_condition_options
 def fall(
     height: Annotated[
         str, typer.Option(help='Release height above the landing surface, e.g. "25 m", "80 ft".')
@@ -395,20 +401,6 @@ def fall(
     contact_area: Annotated[
         str | None, typer.Option(help='Area that strikes first, e.g. "2 cm2" (energy per area).')
     ] = None,
-    wind: WindOpt = "0",
-    wind_kind: WindKindOpt = SpeedKind.mean,
-    wind_from: WindFromOpt = None,
-    wind_profile: WindProfileOpt = None,
-    wind_exponent: WindExponentOpt = None,
-    roughness: RoughnessOpt = None,
-    terrain: TerrainOpt = None,
-    wind_measured: WindMeasuredOpt = "site",
-    elevation: ElevationOpt = "0",
-    air_temp: AirTempOpt = None,
-    pressure: PressureOpt = None,
-    humidity: HumidityOpt = None,
-    air_density: AirDensityOpt = None,
-    latitude: LatitudeOpt = None,
     release: Annotated[
         ReleaseMode, typer.Option(help="How the object leaves the edge.")
     ] = ReleaseMode.drop,
@@ -434,13 +426,13 @@ def fall(
         str | None,
         typer.Option(help='Velocity of what it falls from, east,north,up, e.g. "0,0,-1 m/s".'),
     ] = None,
-    edge_azimuth: EdgeAzimuthOpt = 90.0,
     library: LibraryOpt = None,
     plot: Annotated[
         Path | None, typer.Option(help="Write a side view of the fall (PNG or SVG).")
     ] = None,
     units: UnitsOpt = UnitSystem.si,
     as_json: JsonOpt = False,
+    **conditions: Any,
 ) -> None:
     """Solve one object falling from one release: impact speed, energy, time and drift."""
     try:
@@ -448,13 +440,7 @@ def fall(
         from dropcalc.physics.plate import plate_dimensions
         from dropcalc.present.text import render_fall
 
-        env = _environment(
-            wind=wind, wind_kind=wind_kind, wind_from=wind_from, wind_profile=wind_profile,
-            wind_measured=wind_measured,
-            wind_exponent=wind_exponent, roughness=roughness, terrain=terrain,
-            elevation=elevation, air_temp=air_temp, pressure=pressure, humidity=humidity,
-            air_density=air_density, latitude=latitude, edge_azimuth=edge_azimuth,
-        )  # fmt: skip
+        env = _conditions(conditions)
         cda = _drag_area(drag_area, cd, area)
         contact = _q(contact_area, "area", "--contact-area")
         drag_area_max = None
@@ -479,25 +465,24 @@ def fall(
                 raise InputError(
                     "the drag needs --drag-area (Cd·A, e.g. 0.004 m2) or both --cd and --area"
                 )
-            mass_kg = float(_q(mass, "mass", "--mass"))
+            mass_kg = _quantity(mass, "mass", "--mass")
         case = FallCase(
             mass=mass_kg,
             drag_area=cda,
-            height=float(_q(height, "length", "--height")),
-            release=_release(
-                release.value,
-                release_speed,
-                release_angle,
-                roof_pitch,
-                roof_length,
-                friction,
-                rolling,
-                carrier_velocity,
+            height=_quantity(height, "length", "--height"),
+            conditions=replace(
+                env,
+                release=_release(
+                    release.value,
+                    release_speed,
+                    release_angle,
+                    roof_pitch,
+                    roof_length,
+                    friction,
+                    rolling,
+                    carrier_velocity,
+                ),
             ),  # fmt: skip
-            air=env.air,
-            wind=env.wind,
-            gravity=env.gravity,
-            edge_azimuth=edge_azimuth,
             contact_area=contact,
             drag_area_max=drag_area_max,
             object_id=obj.id if obj is not None else None,
@@ -513,7 +498,7 @@ def fall(
 
             fall_figure(plot, result)
     except DropcalcError as exc:
-        _fail(str(exc))
+        _fail(exc)
         return
     if as_json:
         from dropcalc.present.json import dumps, fall_json
@@ -524,25 +509,12 @@ def fall(
 
 
 @app.command()
+@_condition_options
 def batch(
     file: Annotated[Path, typer.Argument(help="CSV or XLSX list of items (see README).")],
     height: Annotated[
         str | None, typer.Option(help="Release height for rows without a height column.")
     ] = None,
-    wind: WindOpt = "0",
-    wind_kind: WindKindOpt = SpeedKind.mean,
-    wind_from: WindFromOpt = None,
-    wind_profile: WindProfileOpt = None,
-    wind_exponent: WindExponentOpt = None,
-    roughness: RoughnessOpt = None,
-    terrain: TerrainOpt = None,
-    wind_measured: WindMeasuredOpt = "site",
-    elevation: ElevationOpt = "0",
-    air_temp: AirTempOpt = None,
-    pressure: PressureOpt = None,
-    humidity: HumidityOpt = None,
-    air_density: AirDensityOpt = None,
-    latitude: LatitudeOpt = None,
     release: Annotated[
         ReleaseMode, typer.Option(help="How the items leave the edge.")
     ] = ReleaseMode.drop,
@@ -564,7 +536,6 @@ def batch(
         bool,
         typer.Option("--rolling", help="Roof-slide: the items roll (pipe, ball), not slide."),
     ] = False,
-    edge_azimuth: EdgeAzimuthOpt = 90.0,
     library: LibraryOpt = None,
     policy: Annotated[
         Path | None, typer.Option(help="Control rules (TOML) replacing the default policy.")
@@ -578,19 +549,14 @@ def batch(
     ] = None,
     units: UnitsOpt = UnitSystem.si,
     as_json: JsonOpt = False,
+    **conditions: Any,
 ) -> None:
     """Check a list of objects: impact at both drag bounds, levels exceeded, safe heights."""
     try:
         from dropcalc.analysis.batch import BatchSettings
         from dropcalc.model.reference_levels import DEFAULT_LEVEL_KEYS, reference_level
 
-        env = _environment(
-            wind=wind, wind_kind=wind_kind, wind_from=wind_from, wind_profile=wind_profile,
-            wind_measured=wind_measured,
-            wind_exponent=wind_exponent, roughness=roughness, terrain=terrain,
-            elevation=elevation, air_temp=air_temp, pressure=pressure, humidity=humidity,
-            air_density=air_density, latitude=latitude, edge_azimuth=edge_azimuth,
-        )  # fmt: skip
+        env = _conditions(conditions)
         keys = (
             DEFAULT_LEVEL_KEYS
             if levels is None
@@ -600,19 +566,18 @@ def batch(
 
         settings = BatchSettings(
             height=_q(height, "length", "--height"),
-            wind=env.wind,
-            air=env.air,
-            gravity=env.gravity,
-            release=_release(
-                release.value,
-                release_speed,
-                release_angle,
-                roof_pitch,
-                roof_length,
-                friction,
-                rolling,
-            ),
-            edge_azimuth=edge_azimuth,
+            conditions=replace(
+                env,
+                release=_release(
+                    release.value,
+                    release_speed,
+                    release_angle,
+                    roof_pitch,
+                    roof_length,
+                    friction,
+                    rolling,
+                ),
+            ),  # fmt: skip
             levels=tuple(reference_level(k) for k in keys),
             rules=DEFAULT_RULES if policy is None else load_policy(policy),
         )
@@ -632,7 +597,7 @@ def batch(
             else:
                 from dropcalc.present.text import render_batch
 
-                top = []
+                top: list[dict[str, Any]] = []
                 for row in run.rows():
                     if len(top) >= 40 or row.get("error"):
                         break
@@ -646,7 +611,7 @@ def batch(
         finally:
             run.close()
     except DropcalcError as exc:
-        _fail(str(exc))
+        _fail(exc)
         return
     for error in run.errors:
         typer.echo(one_line(f"dropcalc: {file.name}: row {error.row}: {error.message}"), err=True)
@@ -661,6 +626,7 @@ def batch(
 
 
 @app.command()
+@_condition_options
 def zone(
     height: Annotated[
         str | None,
@@ -716,20 +682,6 @@ def zone(
             "height for which it still holds."
         ),
     ] = None,
-    wind: WindOpt = "0",
-    wind_kind: WindKindOpt = SpeedKind.mean,
-    wind_from: WindFromOpt = None,
-    wind_profile: WindProfileOpt = None,
-    wind_exponent: WindExponentOpt = None,
-    roughness: RoughnessOpt = None,
-    terrain: TerrainOpt = None,
-    wind_measured: WindMeasuredOpt = "site",
-    elevation: ElevationOpt = "0",
-    air_temp: AirTempOpt = None,
-    pressure: PressureOpt = None,
-    humidity: HumidityOpt = None,
-    air_density: AirDensityOpt = None,
-    latitude: LatitudeOpt = None,
     release: Annotated[
         ReleaseMode, typer.Option(help="How objects leave the edge.")
     ] = ReleaseMode.drop,
@@ -742,10 +694,10 @@ def zone(
     friction: Annotated[
         float | None, typer.Option(help="Roof friction (roof-slide; default 0.4).")
     ] = None,
-    edge_azimuth: EdgeAzimuthOpt = 90.0,
     library: LibraryOpt = None,
     units: UnitsOpt = UnitSystem.si,
     as_json: JsonOpt = False,
+    **conditions: Any,
 ) -> None:
     """Exclusion distance from the work edge: Monte Carlo at a confidence, and the worst case."""
     try:
@@ -758,13 +710,7 @@ def zone(
         )
         from dropcalc.physics.scatter import surface
 
-        env = _environment(
-            wind=wind, wind_kind=wind_kind, wind_from=wind_from, wind_profile=wind_profile,
-            wind_measured=wind_measured,
-            wind_exponent=wind_exponent, roughness=roughness, terrain=terrain,
-            elevation=elevation, air_temp=air_temp, pressure=pressure, humidity=humidity,
-            air_density=air_density, latitude=latitude, edge_azimuth=edge_azimuth,
-        )  # fmt: skip
+        env = _conditions(conditions)
         if site is None and height is None:
             raise InputError("give --height (or --site with the edge heights)")
         if site is None and geojson is not None:
@@ -780,50 +726,50 @@ def zone(
             # No site: draw the zone around a 1 m stretch of edge facing --edge-azimuth.
             from dropcalc.analysis.plan import Site, SitePlan, WorkEdge
 
-            nx, ny = math.sin(math.radians(edge_azimuth)), math.cos(math.radians(edge_azimuth))
+            assert height is not None  # without a site, --height was required above
+            facing = math.radians(env.edge_azimuth)
+            nx, ny = math.sin(facing), math.cos(facing)
             edge = WorkEdge(
                 "work edge", ((ny / 2, -nx / 2), (-ny / 2, nx / 2)),
-                float(_q(height, "length", "--height")),
+                _quantity(height, "length", "--height"),
             )  # fmt: skip
             plan = SitePlan(Site(None, (edge,)))
-            if geojson is not None and plan.origin_lat is None:
-                raise InputError(f"--geojson needs the site's origin (lat, lon) in {site.name}")
-        height_m = (
-            float(_q(height, "length", "--height"))
-            if height is not None
-            else max(edge.height for edge in plan.site.edges)
-        )
+        if height is not None:
+            height_m = _quantity(height, "length", "--height")
+        else:
+            assert plan is not None  # without --height, --site was required above
+            height_m = max(edge.height for edge in plan.site.edges)
         objects = _zone_objects(object_ids, items, mass, drag_area, library, height_m)
         settings = ZoneSettings(
             height=height_m,
-            release=_release(
-                release.value, release_speed, release_angle, roof_pitch, roof_length, friction
+            conditions=replace(
+                env,
+                release=_release(
+                    release.value, release_speed, release_angle, roof_pitch, roof_length, friction
+                ),
             ),
-            wind=env.wind,
-            air=env.air,
-            gravity=env.gravity,
-            edge_azimuth=edge_azimuth,
             ground=surface(ground),
             confidence=confidence,
-            margin=float(_q(margin, "length", "--margin")),
+            margin=_quantity(margin, "length", "--margin"),
             relative_error=precision,
             seed=seed,
             ground_slope=_ground_slope(ground_slope, "--ground-slope"),
         )
         site_result = None
+        wind_outward = conditions["wind_from"] is None
         if plan is not None:
             from dropcalc.analysis.zone import site_zone
 
             site_result = site_zone(
-                objects, settings, plan.site, _progress(as_json), wind_outward=wind_from is None
+                objects, settings, plan.site, _progress(as_json), wind_outward=wind_outward
             )
             result = site_result.driver[2]
-            _write_plan(site_result, plan, plot, geojson, env.wind, wind_from is None)
+            _write_plan(site_result, plan, plot, geojson, env.wind, wind_outward)
         else:
             result = compute_zone(objects, settings, _progress(as_json))
         limits = None
         if barricade is not None:
-            distance = float(_q(barricade, "length", "--barricade"))
+            distance = _quantity(barricade, "length", "--barricade")
             if not distance > 0:
                 raise InputError(f"--barricade must be a distance > 0 m; got {barricade}")
             wind_limit = highest_wind(objects, settings, distance)
@@ -835,7 +781,7 @@ def zone(
                 "still_air": still_air_radius(objects, settings) if wind_limit == 0 else None,
             }
     except DropcalcError as exc:
-        _fail(str(exc))
+        _fail(exc)
         return
     if as_json:
         from dropcalc.present.json import dumps, zone_json
@@ -870,9 +816,10 @@ def _write_plan(
         text = dumps(data, indent=1)
         write_atomic(geojson, lambda p: p.write_text(text, encoding="utf-8"))
     if plot is not None:
+        from dropcalc.model.conditions import opposite_azimuth
         from dropcalc.present.plan_plot import plot_plan
 
-        toward = None if outward else (wind.from_direction_deg + 180.0) % 360.0
+        toward = None if outward else float(opposite_azimuth(wind.from_direction_deg))
         label = (
             "still air" if wind.speed_10m == 0
             else f"{wind.speed_10m:g} m/s {wind.kind}"
@@ -920,12 +867,12 @@ def _zone_objects(
         if mass is None or drag_area is None:
             raise InputError("a custom object needs both --mass and --drag-area")
         parts = [p for p in drag_area.split(",") if p.strip()]
-        areas = [float(_q(p.strip(), "area", "--drag-area")) for p in parts]
+        areas = [_quantity(p.strip(), "area", "--drag-area") for p in parts]
         if len(areas) not in (1, 2) or min(areas) <= 0:
             raise InputError(f"--drag-area: expected one area or a min,max pair; got {drag_area}")
         from dropcalc.analysis.fall import check_object
 
-        m = float(_q(mass, "mass", "--mass"))
+        m = _quantity(mass, "mass", "--mass")
         check_object(m, min(areas), 1.0, None, max(areas))
         objects.append(ZoneObject("custom object", m, min(areas), max(areas)))
     if not objects:
@@ -972,10 +919,10 @@ def report(
             summary = report_json(job, output)
             summary["pages"] = pages
     except DropcalcError as exc:
-        _fail(str(exc))
+        _fail(exc)
         return
     except OSError as exc:
-        _fail(f"cannot write the job's files ({exc.strerror or exc})")
+        _fail(InputError(f"cannot write the job's files ({exc.strerror or exc})"))
         return
     if as_json:
         from dropcalc.present.json import dumps
@@ -1007,7 +954,7 @@ def _write_job_files(job: Any, out: Path, pdf: Path) -> dict[str, Any]:
         if data is not None:
             target = out / f"exclusion-area-{index}.geojson"
             text = dumps(data, indent=1)
-            write_atomic(target, lambda p, t=text: p.write_text(t, encoding="utf-8"))
+            write_atomic(target, partial(Path.write_text, data=text, encoding="utf-8"))
             files[f"geojson_{index}"] = str(target)
     for figure in sorted(figures.glob("*.png")):
         files[f"figure_{figure.stem}"] = str(figure)
@@ -1078,7 +1025,7 @@ def demo(
         _refuse_to_overwrite_edits(out, source, ("scenario.toml", "items.csv"))
         out.mkdir(parents=True, exist_ok=True)
         for name in ("scenario.toml", "items.csv"):
-            write_atomic(out / name, lambda p, n=name: shutil.copyfile(source / n, p))
+            write_atomic(out / name, partial(shutil.copyfile, source / name))
         job = run_job(load_scenario(out / "scenario.toml"), _progress(as_json))
         summary = _write_job_files(job, out, out / "report.pdf")
         files = {
@@ -1088,7 +1035,7 @@ def demo(
         }
         summary["files"] = files
     except DropcalcError as exc:
-        _fail(str(exc))
+        _fail(exc)
         return
     if as_json:
         typer.echo(dumps(summary))
@@ -1114,7 +1061,7 @@ def serve(
 
         run_server(host, port, open_browser=not no_browser)
     except DropcalcError as exc:
-        _fail(str(exc))
+        _fail(exc)
     except KeyboardInterrupt:
         pass
 
@@ -1122,9 +1069,9 @@ def serve(
 def _ground_slope(text: str, field: str) -> float:
     """The ground slope in degrees, in its allowed range (raises InputError naming ``field``)."""
     from dropcalc.errors import require_range
-    from dropcalc.physics.scatter import SLOPE_RANGE
+    from dropcalc.model.limits import SLOPE_RANGE
 
-    return require_range(field, _q(text, "angle", field), *SLOPE_RANGE, "deg")
+    return require_range(field, _quantity(text, "angle", field), *SLOPE_RANGE, "deg")
 
 
 def _refuse_to_overwrite_edits(out: Path, source: Path, names: tuple[str, ...]) -> None:
@@ -1197,7 +1144,7 @@ def objects(
             require_suffix(csv, (".csv",), "--csv")
             write_rows(csv, csv_rows(chosen))
     except DropcalcError as exc:
-        _fail(str(exc))
+        _fail(exc)
         return
     if as_json:
         from dropcalc.present.json import dumps, object_json
@@ -1222,7 +1169,7 @@ def objects_show(
 
         obj = load_library(library).get(object_id)
     except DropcalcError as exc:
-        _fail(str(exc))
+        _fail(exc)
         return
     if as_json:
         from dropcalc.present.json import dumps, object_json

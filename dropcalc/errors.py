@@ -11,10 +11,58 @@ from __future__ import annotations
 import re
 import stat
 from pathlib import Path
+from typing import TYPE_CHECKING
+
+if TYPE_CHECKING:  # numpy is imported where an array is checked: the CLI starts without it
+    import numpy as np
+    from numpy.typing import NDArray
 
 
 class DropcalcError(Exception):
-    """Base class of every error dropcalc raises on purpose."""
+    """Base class of every error dropcalc raises on purpose.
+
+    The error carries what went wrong as data: ``field`` (the model's name for the input, e.g.
+    ``"mass"``; None when the error is about no single field), ``value`` (what was given) and
+    ``allowed`` (what would have been accepted, as words: ``"between 0.5 and 0.9999"``). The
+    CLI names the option from ``field`` and a file reader names the key from it; neither reads
+    the message back. Given those and no message, the message is built from them:
+    ``{field} must be {allowed}; got {value} {unit}``.
+
+    Parameters
+    ----------
+    message : str, optional
+        The whole message; built from the fields below when omitted.
+    field : str, optional
+        Name of the input that failed.
+    value : object, optional
+        The value given (shown with ``:g`` for a number).
+    allowed : str, optional
+        What is allowed, completing "must be ...".
+    unit : str
+        Unit symbol shown after the value in a built message.
+    """
+
+    def __init__(
+        self,
+        message: str | None = None,
+        *,
+        field: str | None = None,
+        value: object = None,
+        allowed: str | None = None,
+        unit: str = "",
+    ) -> None:
+        self.field = field
+        self.value = value
+        self.allowed = allowed
+        #: The message without the field's name in front, for a reader that names the field
+        #: its own way (a file's key path): "must be between 0.5 and 0.9999; got 1.5".
+        if message is None:
+            shown = f"{value:g}" if isinstance(value, float) else str(value)
+            self.detail = f"must be {allowed}; got {shown}{' ' + unit if unit else ''}"
+            message = f"{field} {self.detail}"
+        else:
+            self.detail = message
+        super().__init__(message)
 
 
 class InputError(DropcalcError, ValueError):
@@ -38,14 +86,16 @@ def to_float(name: str, value: object, unit: str = "") -> float:
         When ``value`` is not a number (a text, None, a list), naming the field.
     """
     if isinstance(value, bool):
-        raise InputError(f"{name} must be a number{' in ' + unit if unit else ''}; got {value!r}")
+        raise InputError(
+            f"{name} must be a number{' in ' + unit if unit else ''}; got {value!r}", field=name
+        )
     try:
         return float(value)  # type: ignore[arg-type]
     except OverflowError:
         return float("inf") if value > 0 else float("-inf")  # type: ignore[operator]
     except (TypeError, ValueError):
         raise InputError(
-            f"{name} must be a number{' in ' + unit if unit else ''}; got {value!r}"
+            f"{name} must be a number{' in ' + unit if unit else ''}; got {value!r}", field=name
         ) from None
 
 
@@ -74,18 +124,60 @@ def require_finite_positive(
     bound = ">= 0" if allow_zero else "> 0"
     ok = v == v and v not in (float("inf"), float("-inf")) and (v >= 0 if allow_zero else v > 0)
     if not ok:
-        raise InputError(f"{name} must be a finite value {bound} {unit}; got {v:g} {unit}")
+        raise InputError(field=name, value=v, allowed=f"a finite value {bound} {unit}", unit=unit)
     return v
 
 
-def require_range(name: str, value: float, low: float, high: float, unit: str) -> float:
-    """Return ``value`` as float if ``low <= value <= high`` and finite, else raise InputError."""
+def range_error(
+    name: str, value: float, low: float, high: float, unit: str = "", note: str = ""
+) -> InputError:
+    """The one message of a value outside its range, as an :class:`InputError` with its data.
+
+    ``{name} must be between {low} and {high} {unit}{note}; got {value} {unit}``; ``note`` says
+    why, e.g. " (the Earth's surface)".
+    """
+    unit_shown = f" {unit}" if unit else ""
+    return InputError(
+        field=name,
+        value=float(value),
+        allowed=f"between {low:g} and {high:g}{unit_shown}{note}",
+        unit=unit,
+    )
+
+
+def require_range(
+    name: str, value: object, low: float, high: float, unit: str = "", note: str = ""
+) -> float:
+    """Return ``value`` as float if ``low <= value <= high`` (so finite), else raise InputError.
+
+    The one range check of the model layer (the limits themselves are in
+    :mod:`dropcalc.model.limits`); arrays are checked element-wise by :func:`require_range_array`.
+    A number too large for a float counts as infinite; a non-number names the field.
+    """
     v = to_float(name, value, unit)
-    if not (v == v and low <= v <= high):
-        raise InputError(
-            f"{name} must be between {low:g} and {high:g} {unit}; got {v:g} {unit}".rstrip()
-        )
+    if not (low <= v <= high):  # NaN compares False
+        raise range_error(name, v, low, high, unit, note)
     return v
+
+
+def require_range_array(
+    name: str, values: object, low: float, high: float, unit: str = "", note: str = ""
+) -> NDArray[np.float64]:
+    """:func:`require_range` for a number or an array: the first bad element is named."""
+    import numpy as np
+
+    try:
+        array = np.asarray(values, dtype=float)
+    except OverflowError:
+        raise InputError(
+            f"{name} must be a finite number; got {values!r:.40}", field=name
+        ) from None
+    except (TypeError, ValueError):
+        raise InputError(f"{name} must be a number; got {values!r:.40}", field=name) from None
+    bad = ~((array >= low) & (array <= high))  # NaN compares False, so it is caught here
+    if bad.any():
+        raise range_error(name, float(array[bad].flat[0]), low, high, unit, note)
+    return array
 
 
 def shorten(text: object, limit: int = 80) -> str:
@@ -167,7 +259,7 @@ def require_suffix(path: object, allowed: tuple[str, ...], field: str) -> str:
     suffix = Path(name).suffix.lower()
     if suffix not in allowed:
         listed = ", ".join(allowed[:-1]) + " or " + allowed[-1] if len(allowed) > 1 else allowed[0]
-        raise InputError(f"{field} must end in {listed}; got {shorten(name, 80)}")
+        raise InputError(f"{field} must end in {listed}; got {shorten(name, 80)}", field=field)
     return suffix
 
 

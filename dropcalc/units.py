@@ -35,6 +35,7 @@ from typing import TYPE_CHECKING, Any, Literal
 
 from dropcalc.errors import InputError, shorten
 from dropcalc.model.limits import MAX_QUANTITY_CHARACTERS
+from dropcalc.physics.constants import STANDARD_GRAVITY
 
 if TYPE_CHECKING:  # pragma: no cover - typing only, never imported at run time
     import pint
@@ -53,7 +54,7 @@ POUND_FORCE = 4.4482216152605  # [N] = POUND * 9.80665 m/s^2
 MILE_PER_HOUR = 0.44704  # [m/s]
 #: Conventional inch of mercury [Pa]: 13 595.1 kg/m³ x 9.806 65 m/s² x 0.0254 m, which
 #: NIST SP 811 (2008), Appendix B.8 prints as 3.386 389 E+03 Pa.
-INCH_OF_MERCURY = 13595.1 * 9.80665 * INCH
+INCH_OF_MERCURY = 13595.1 * STANDARD_GRAVITY * INCH
 #: Offset of 0 °C on the kelvin scale [K]. SI Brochure, 9th edition (2019), 2.3.1 (section from
 #: memory).
 CELSIUS_ZERO = 273.15
@@ -200,7 +201,7 @@ _OTHER_DIMENSIONS: dict[str, str] = {
 
 # --- Registry ------------------------------------------------------------------------------------
 @functools.cache
-def unit_registry() -> pint.UnitRegistry:
+def unit_registry() -> pint.UnitRegistry[Any]:
     """Return the one pint registry of dropcalc, created (and pint imported) on first call."""
     import pint
 
@@ -299,14 +300,16 @@ def _read_number(text: str, raw: str, field: str, spec: Kind) -> float:
             alternatives = raw.replace(",", ".", 1), raw.replace(",", "", 1)
             raise InputError(
                 f'{field}: "{_show(raw)}" is ambiguous (is the comma a decimal point?); '
-                f'write "{alternatives[0]}" or "{alternatives[1]}" without thousands separators'
+                f'write "{alternatives[0]}" or "{alternatives[1]}" without thousands separators',
+                field=field,
             )
         text = text.replace(",", ".")
     number = float(text)
     if not math.isfinite(number):
         raise InputError(
             f'{field}: "{_show(raw)}" is not a finite number; '
-            f"expected {spec.noun} (e.g. {_examples(spec)})"
+            f"expected {spec.noun} (e.g. {_examples(spec)})",
+            field=field,
         )
     return number
 
@@ -342,9 +345,15 @@ def _bare(number: float, raw: str, kind: str, field: str, spec: Kind) -> float:
     if kind == "fraction" and number > 1.0:
         raise InputError(
             f'{field}: a number without a unit must be a fraction from 0 to 1; got "{_show(raw)}" '
-            f'(for a percentage write "{_show(raw)} %")'
+            f'(for a percentage write "{_show(raw)} %")',
+            field=field,
         )
     return number + spec.bare_offset
+
+
+def parse_optional_quantity(value: str | float | int | None, kind: str, field: str) -> float | None:
+    """:func:`parse_quantity`, with None (an option not given) passed through as None."""
+    return None if value is None else parse_quantity(value, kind, field)
 
 
 def parse_quantity(value: str | float | int, kind: str, field: str) -> float:
@@ -396,31 +405,38 @@ def parse_quantity(value: str | float | int, kind: str, field: str) -> float:
         if not math.isfinite(number):
             raise InputError(
                 f"{field}: {number} is not a finite number; expected {spec.noun} "
-                f"(e.g. {_examples(spec)})"
+                f"(e.g. {_examples(spec)})",
+                field=field,
             )
         return _bare(number, f"{number:g}", kind, field, spec)
     if not isinstance(value, str):
         raise InputError(
             f"{field}: expected {spec.noun} as text or a number (e.g. {_examples(spec)}); "
-            f"got {type(value).__name__} {value!r}"
+            f"got {type(value).__name__} {value!r}",
+            field=field,
         )
     raw = value.strip()
     if not raw:
-        raise InputError(f"{field}: no value given; expected {spec.noun} (e.g. {_examples(spec)})")
+        raise InputError(
+            f"{field}: no value given; expected {spec.noun} (e.g. {_examples(spec)})", field=field
+        )
     if len(raw) > MAX_QUANTITY_CHARACTERS:
         raise InputError(
             f'{field}: "{_show(raw)}" is longer than {MAX_QUANTITY_CHARACTERS} characters; '
-            f"expected {spec.noun} (e.g. {_examples(spec)})"
+            f"expected {spec.noun} (e.g. {_examples(spec)})",
+            field=field,
         )
     match = _NUMBER_RE.match(raw.replace("−", "-"))
     if match is None:
         raise InputError(
-            f'{field}: could not read "{_show(raw)}" as {spec.noun} (e.g. {_examples(spec)})'
+            f'{field}: could not read "{_show(raw)}" as {spec.noun} (e.g. {_examples(spec)})',
+            field=field,
         )
     if not _UNIT_TEXT_RE.fullmatch(match["unit"]):
         raise InputError(
             f'{field}: could not read "{_show(raw)}" as {spec.noun} (e.g. {_examples(spec)}); '
-            "after the number only unit names, * and / and one-digit powers are read"
+            "after the number only unit names, * and / and one-digit powers are read",
+            field=field,
         )
     number = _read_number(match["number"], raw, field, spec)
     unit_text = match["unit"]
@@ -487,7 +503,8 @@ def _convert(number: float, unit_text: str, raw: str, field: str, spec: Kind) ->
     if units.dimensionality != _dimensionality(spec.dimensionality) or not unit_allowed:
         raise InputError(
             f'{field}: expected {spec.noun} (e.g. {_examples(spec)}); got "{_show(raw)}" '
-            f"({_describe(units)})"
+            f"({_describe(units)})",
+            field=field,
         )
     try:
         result = float(registry.Quantity(number, units).to(spec.si_unit).magnitude)
@@ -496,7 +513,8 @@ def _convert(number: float, unit_text: str, raw: str, field: str, spec: Kind) ->
     if not math.isfinite(result):
         raise InputError(
             f'{field}: "{_show(raw)}" is too large to represent; expected {spec.noun} '
-            f"(e.g. {_examples(spec)})"
+            f"(e.g. {_examples(spec)})",
+            field=field,
         )
     if (unit_text, id(spec)) not in _CONVERSIONS:
         zero = float(registry.Quantity(0.0, units).to(spec.si_unit).magnitude)
@@ -627,6 +645,8 @@ def parse_direction(value: str | float | int, field: str) -> float:
         except InputError:
             raise InputError(
                 f"{field}: could not read {_show(value)} as a direction: give a compass point "
-                '(N, NE, ENE, SW, WSW ...) or an angle clockwise from north (e.g. "225", "225 deg")'
+                "(N, NE, ENE, SW, WSW ...) or an angle clockwise from north "
+                '(e.g. "225", "225 deg")',
+                field=field,
             ) from None
     return parse_quantity(value, "angle", field)

@@ -42,6 +42,7 @@ from dropcalc.analysis.batch import (
 )
 from dropcalc.cli import app
 from dropcalc.io.library import load_library
+from dropcalc.model.conditions import Conditions
 from dropcalc.physics.atmosphere import air_state
 from dropcalc.physics.release import Release
 from dropcalc.physics.wind import wind_spec
@@ -309,7 +310,9 @@ def test_still_air_safe_height_matches_the_closed_form():
     areas = np.array([0.002, 0.01, 0.004, 0.05, 0.3, 0.0025])
     levels = np.array([5.0, 24.5, 49.0, 100.0, 300.0, 30.6])
     k = density * areas / (2 * masses)
-    heights = safe_heights(masses, k, levels, BatchSettings(air=air_state(density=density)))
+    heights = safe_heights(
+        masses, k, levels, BatchSettings(conditions=Conditions(air=air_state(density=density)))
+    )
     expected = _closed_form_height(masses, areas, levels, density)
     # The inverse solve's documented accuracy is 1e-4 relative in height.
     np.testing.assert_allclose(heights, expected, rtol=1e-4)
@@ -335,7 +338,9 @@ def test_levels_above_the_terminal_energy_are_never_reached(wind):
     # Terminal state in a uniform wind: v_t relative to the air, moving with the wind
     # ([TVDW-1999], wind-frame principle): energy -> 1/2 m (v_t^2 + U^2), from below.
     ceiling = 0.5 * masses * (vt2 + wind**2)
-    settings = BatchSettings(air=air_state(density=density), wind=wind_spec(wind))
+    settings = BatchSettings(
+        conditions=Conditions(air=air_state(density=density), wind=wind_spec(wind))
+    )
     assert np.all(np.isposinf(safe_heights(masses, k, 1.001 * ceiling, settings)))
     below = safe_heights(masses, k, 0.99 * ceiling, settings)
     assert np.all(np.isfinite(below))
@@ -365,7 +370,7 @@ def test_push_release_with_energy_above_a_level_gives_zero(tmp_path):
         assert row[f"safe_height_{key}_m"] == 0.0, key
     assert 0.0 < row["safe_height_helmet_en14052_crown_m"] < 10.0
     # Library level: a level just above the release energy needs a small drop.
-    settings = BatchSettings(release=Release(mode="push", speed=4.0))
+    settings = BatchSettings(conditions=Conditions(release=Release(mode="push", speed=4.0)))
     k = np.full(2, 1.225 * 0.01 / 20)
     heights = safe_heights(np.full(2, 10.0), k, np.array([79.0, 81.0]), settings)
     assert heights[0] == 0.0
@@ -699,7 +704,7 @@ def test_ten_thousand_rows_are_all_solved(tmp_path):
     # Speed is measured by benchmarks/commands.py (batch workloads), not asserted here.
     path = tmp_path / "big.csv"
     _big_list(path, 10_000)
-    settings = BatchSettings(wind=wind_spec(12.0, terrain="suburban"))
+    settings = BatchSettings(conditions=Conditions(wind=wind_spec(12.0, terrain="suburban")))
     frame = read_table(path)
     items, errors = parse_items(frame, load_library(), settings)
     rows = solve_items(items, settings)
@@ -729,7 +734,7 @@ def test_a_huge_cell_is_named_but_not_quoted_whole(tmp_path):
 def test_repeated_rows_are_solved_once_with_the_same_figures_as_alone(tmp_path):
     # Rows naming the same object (a sheet flown by the plate model, a brick) are solved once
     # per distinct object; each row's figures equal those of the object solved on its own.
-    settings = BatchSettings(height=15.0, wind=wind_spec(6.0))
+    settings = BatchSettings(height=15.0, conditions=Conditions(wind=wind_spec(6.0)))
     library = load_library()
     ids = ["plywood-12mm-half-sheet", "brick-uk-standard", "plywood-12mm-half-sheet"]
     listed = write_text(tmp_path, "list.csv", "id\n" + "\n".join(ids) + "\n")

@@ -19,6 +19,7 @@ import pytest
 
 from dropcalc.analysis.fall import FallCase, solve_fall
 from dropcalc.errors import InputError
+from dropcalc.model.conditions import Conditions
 from dropcalc.physics.release import Release
 from dropcalc.physics.trajectory import WindField, solve_falls
 from dropcalc.physics.wind import wind_spec
@@ -282,14 +283,18 @@ def _fall_result(**overrides: object) -> object:
         "mass": 2.5,
         "drag_area": 0.01,
         "height": 24.0,
-        "release": Release("push", speed=1.5),
-        "wind": wind_spec(9.0, terrain="suburban", from_direction=300.0),
         "drag_area_max": 0.06,
         "object_name": "bag of scaffold clips",
+    }
+    conditions: dict[str, object] = {
+        "release": Release("push", speed=1.5),
+        "wind": wind_spec(9.0, terrain="suburban", from_direction=300.0),
         "edge_azimuth": 120.0,
     }
-    values.update(overrides)
-    return solve_fall(FallCase(**values))  # type: ignore[arg-type]
+    for key, value in overrides.items():
+        (conditions if key in conditions else values)[key] = value
+    case = FallCase(**values, conditions=Conditions(**conditions))  # type: ignore[arg-type]
+    return solve_fall(case)
 
 
 def test_fall_figure_paths_land_where_the_fall_result_says(tmp_path: Path) -> None:

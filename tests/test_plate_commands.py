@@ -13,6 +13,7 @@ from dropcalc.analysis.plate_flight import largest_spin, sample_attitudes
 from dropcalc.analysis.zone import ZoneSettings, sample_object, zone_object
 from dropcalc.cli import app
 from dropcalc.io.library import load_library
+from dropcalc.model.conditions import Conditions
 from dropcalc.physics.plate import plate_dimensions
 from dropcalc.physics.wind import wind_spec
 
@@ -85,7 +86,9 @@ def test_zone_text_keeps_no_glide_warning_for_a_covered_sheet() -> None:
     from dropcalc.present.text import render_zone
 
     obj = zone_object(load_library().get(SHEET))
-    settings = ZoneSettings(height=10.0, wind=wind_spec(6.0), max_samples=20000)
+    settings = ZoneSettings(
+        height=10.0, conditions=Conditions(wind=wind_spec(6.0)), max_samples=20000
+    )
     result = compute_zone([obj], settings)
     text = render_zone(result)
     assert "not conservative" not in text

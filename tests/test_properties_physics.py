@@ -70,6 +70,7 @@ from hypothesis.control import currently_in_test_context
 from dropcalc.analysis.fall import FallCase, solve_fall
 from dropcalc.analysis.zone import Uncertainty, ZoneObject, ZoneSettings, sample_object
 from dropcalc.errors import InputError, ModelValidityWarning, UnknownObjectError
+from dropcalc.model.conditions import Conditions
 from dropcalc.model.reference_levels import REFERENCE_LEVELS, reference_level
 from dropcalc.physics.atmosphere import air_state
 from dropcalc.physics.gravity import gravity
@@ -615,9 +616,12 @@ def test_fall_case_and_solve_fall_are_sensible_or_name_the_field(
     wind: Any,
     glides: bool,
 ) -> None:
+    conditions, error = _call(Conditions, air_state(), wind, g, release, edge_azimuth)
+    if error is not None:
+        _names_a_field(error, FALL_FIELDS)
+        return
     case, error = _call(
-        FallCase, mass, drag_area, height, release, air_state(), wind, g, edge_azimuth,
-        contact_area, drag_area_max, glides=glides,
+        FallCase, mass, drag_area, height, conditions, contact_area, drag_area_max, glides=glides,
     )  # fmt: skip
     if error is not None:
         _names_a_field(error, FALL_FIELDS)
@@ -714,8 +718,12 @@ def test_zone_settings_and_sampling_are_sensible_or_name_the_field(
     if error is not None:
         _names_a_field(error, ZONE_FIELDS)
         return
+    conditions, error = _call(Conditions, air_state(), wind, g, release, edge_azimuth)
+    if error is not None:
+        _names_a_field(error, ZONE_FIELDS)
+        return
     zone_settings, error = _call(
-        ZoneSettings, height, release, wind, air_state(), g, edge_azimuth,
+        ZoneSettings, height, conditions,
         confidence=confidence, margin=margin, relative_error=relative_error,
         uncertainty=uncertainty,
     )  # fmt: skip
@@ -944,7 +952,9 @@ def test_regression_huge_int_overflows_instead_of_input_error(
         lambda: initial_velocity(
             Release("roof-slide", roof_pitch=30.0, roof_length=10.0, friction=0.1), 90.0, 1e300
         ),
-        lambda: solve_fall(FallCase(1.0, 0.01, 10.0, gravity=1e300)),  # impact at 4e150 m/s
+        lambda: solve_fall(
+            FallCase(1.0, 0.01, 10.0, conditions=Conditions(gravity=1e300))
+        ),  # impact at 4e150 m/s
     ],
     ids=["eave_exit_speed", "initial_velocity", "solve_fall"],
 )
@@ -955,7 +965,7 @@ def test_regression_gravity_is_not_range_checked(function: Callable[[], Any]) ->
 @pytest.mark.parametrize(
     "function",
     [
-        lambda: solve_fall(FallCase(1.0, 0.01, 10.0, gravity=5e-324)),
+        lambda: solve_fall(FallCase(1.0, 0.01, 10.0, conditions=Conditions(gravity=5e-324))),
     ],
     ids=["solve_fall"],
 )
@@ -1015,11 +1025,11 @@ HUGE_INT = 10**400
     ("field", "call"),
     [
         ("minimum_height", lambda: wind_spec(0.0, minimum_height=HUGE_INT)),
-        ("edge_azimuth", lambda: FallCase(1.0, 1.0, 1.0, edge_azimuth=HUGE_INT)),
+        ("edge_azimuth", lambda: FallCase(1.0, 1.0, 1.0, Conditions(edge_azimuth=HUGE_INT))),
         ("confidence", lambda: ZoneSettings(height=1.0, confidence=HUGE_INT)),
         ("margin", lambda: ZoneSettings(height=1.0, margin=HUGE_INT)),
-        ("gravity", lambda: ZoneSettings(height=1.0, gravity=HUGE_INT)),
-        ("edge_azimuth", lambda: ZoneSettings(height=1.0, edge_azimuth=HUGE_INT)),
+        ("gravity", lambda: ZoneSettings(1.0, Conditions(gravity=HUGE_INT))),
+        ("edge_azimuth", lambda: ZoneSettings(1.0, Conditions(edge_azimuth=HUGE_INT))),
         ("relative_error", lambda: ZoneSettings(height=1.0, relative_error=HUGE_INT)),
         ("edge_azimuth", lambda: initial_velocity(Release("push", 1.0), HUGE_INT)),
     ],
@@ -1034,7 +1044,7 @@ def test_regression_an_integer_too_large_for_a_float_is_refused_by_name(
 
 def test_regression_an_integer_beyond_int64_is_read_as_a_float_angle() -> None:
     # Found by exploring: -2**63 - 1 made numpy build an object array (np.radians TypeError).
-    case = FallCase(1.0, 1.0, 1.0, edge_azimuth=-(2**63) - 1)
+    case = FallCase(1.0, 1.0, 1.0, conditions=Conditions(edge_azimuth=-(2**63) - 1))
     assert isinstance(case.edge_azimuth, float)
     result = solve_fall(case)
     assert math.isfinite(fall_json(result)["impact_speed_m_s"])

@@ -284,7 +284,7 @@ def test_arrays_of_different_lengths_are_refused() -> None:
         ({"mode": "throw", "speed": 5.0, "angle": math.inf}, r"release_angle .* got inf"),
         (
             {"mode": "roof-slide", "roof_pitch": 85.0, "roof_length": 2.0},
-            r"roof_pitch must be finite and between 0 and 80 deg; got 85 deg",
+            r"roof_pitch must be between 0 and 80 deg; got 85 deg",
         ),
         (
             {"mode": "roof-slide", "roof_pitch": 30.0, "roof_length": 0.0},
@@ -293,7 +293,7 @@ def test_arrays_of_different_lengths_are_refused() -> None:
         ({"mode": "roof-slide", "roof_pitch": 30.0, "roof_length": 120.0}, r"roof_length .*120"),
         (
             {"mode": "roof-slide", "roof_pitch": 30.0, "roof_length": 2.0, "friction": -0.1},
-            r"friction must be finite and between 0 and 2; got -0.1",
+            r"friction must be between 0 and 2; got -0.1",
         ),
         (
             {"mode": "roof-slide", "roof_pitch": 60, "roof_length": 2, "friction": 2.5},
@@ -307,7 +307,7 @@ def test_arrays_of_different_lengths_are_refused() -> None:
                 "rolling": True,
                 "inertia_ratio": 1.5,
             },
-            r"inertia_ratio must be finite and between 0 and 1 .*got 1.5",
+            r"inertia_ratio must be between 0 and 1 .*got 1.5",
         ),
         ({"carrier_velocity": (0.0, 31.0, 0.0)}, r"carrier_velocity \(north\) .* -30 and 30 m/s"),
         ({"carrier_velocity": (math.nan, 0.0, 0.0)}, r"carrier_velocity \(east\) .* got nan"),
@@ -388,11 +388,11 @@ def test_bad_azimuth() -> None:
 
 
 def test_eave_exit_speed_checks_its_arguments() -> None:
-    with pytest.raises(InputError, match="roof_pitch must be finite and between 0 and 80"):
+    with pytest.raises(InputError, match="roof_pitch must be between 0 and 80"):
         eave_exit_speed(90.0, 2.0, 0.0, G)
     with pytest.raises(InputError, match="roof_length must be a finite length > 0"):
         eave_exit_speed(30.0, -1.0, 0.0, G)
-    with pytest.raises(InputError, match="initial_speed must be finite"):
+    with pytest.raises(InputError, match="initial_speed must be between"):
         eave_exit_speed(30.0, 2.0, 0.0, G, initial_speed=-1.0)
 
 

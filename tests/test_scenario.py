@@ -213,7 +213,7 @@ ERRORS = {
     ),
     "edge-height-negative": pytest.param(
         _replace('height = "10 m"', 'height = "-1 m"'), "work_area[1].edge[1].height", 14,
-        ("-1 m", "0.01 to 5000 m"), id="edge-height-negative",
+        ("-1 m", "between 0.01 and 5000 m"), id="edge-height-negative",
     ),
     "edge-height-too-high": pytest.param(
         _replace('height = "10 m"', 'height = "9000 m"'), "work_area[1].edge[1].height", 14,

@@ -49,6 +49,7 @@ from dropcalc.analysis.zone import (
 )
 from dropcalc.errors import InputError
 from dropcalc.io.library import load_library
+from dropcalc.model.conditions import Conditions
 from dropcalc.physics.contact import FRAGMENT_ANGLE, FRAGMENT_SPEED_FRACTION
 from dropcalc.physics.release import Release
 from dropcalc.physics.scatter import Surface, surface
@@ -81,7 +82,7 @@ def _library_object(object_id: str) -> ZoneObject:
 def _uniform_push_settings(top_speed: float, height: float, confidence: float) -> ZoneSettings:
     return ZoneSettings(
         height=height,
-        release=Release("push", speed=top_speed),
+        conditions=Conditions(release=Release("push", speed=top_speed)),
         ground=STOPPING,
         confidence=confidence,
         margin=0.0,
@@ -151,7 +152,9 @@ def test_realistic_radius_agrees_across_sample_sizes_within_the_errors() -> None
     # No closed form here: the quantiles at 5k, 20k and 80k samples must agree within three
     # combined standard errors, and the standard error must shrink.
     obj = _library_object("combination-spanner-19mm")
-    settings = ZoneSettings(height=15.0, release=Release("push", speed=2.0), wind=wind_spec(8.0))
+    settings = ZoneSettings(
+        height=15.0, conditions=Conditions(release=Release("push", speed=2.0), wind=wind_spec(8.0))
+    )
     found = []
     for n in (5_000, 20_000, 80_000):
         rest, _, _ = sample_object(obj, settings, n, np.random.default_rng(100 + n))
@@ -164,7 +167,9 @@ def test_realistic_radius_agrees_across_sample_sizes_within_the_errors() -> None
 
 def _spanner_in_wind() -> tuple[ZoneObject, ZoneSettings]:
     obj = _library_object("combination-spanner-19mm")
-    return obj, ZoneSettings(height=15.0, release=Release("push", speed=2.0), wind=wind_spec(8.0))
+    return obj, ZoneSettings(
+        height=15.0, conditions=Conditions(release=Release("push", speed=2.0), wind=wind_spec(8.0))
+    )
 
 
 @pytest.mark.parametrize("case", ["uniform-push", "spanner-in-wind", "brick-drop-in-wind"])
@@ -178,7 +183,7 @@ def test_reported_standard_error_matches_the_spread_over_seeds(case: str) -> Non
         obj, settings = DENSE, _uniform_push_settings(5.0, 20.0, 0.99)
     elif case == "brick-drop-in-wind":  # landings read from the fall table
         obj = _library_object("brick-uk-standard")
-        settings = ZoneSettings(height=18.0, wind=wind_spec(8.0))
+        settings = ZoneSettings(height=18.0, conditions=Conditions(wind=wind_spec(8.0)))
     else:
         obj, settings = _spanner_in_wind()
     quantiles, errors = [], []
@@ -215,7 +220,7 @@ def test_fall_table_of_drops_matches_direct_solves(object_id: str, height: float
     # direction; the direct engine solves every sample (the engine is checked against scipy's
     # DOP853 in tests/test_trajectory_accuracy.py).
     obj = _library_object(object_id)
-    settings = ZoneSettings(height=height, wind=wind)
+    settings = ZoneSettings(height=height, conditions=Conditions(wind=wind))
     rng = np.random.default_rng(5)
     n = 4000
     speed = wind.speed_10m * rng.uniform(0.0, 1.5, n)
@@ -239,7 +244,9 @@ def test_fall_table_of_drops_matches_direct_solves(object_id: str, height: float
 
 def test_zone_of_drops_counts_the_fall_table_error_in_its_standard_error() -> None:
     obj = _library_object("brick-uk-standard")
-    result = compute_zone([obj], ZoneSettings(height=18.0, wind=wind_spec(8.0)))
+    result = compute_zone(
+        [obj], ZoneSettings(height=18.0, conditions=Conditions(wind=wind_spec(8.0)))
+    )
     zone = result.driver
     _, sampled = quantile_with_error(np.hypot(*zone.offsets), result.settings.confidence)
     assert zone.standard_error >= sampled
@@ -255,7 +262,9 @@ def test_zone_of_a_sheet_beside_drops_mixes_the_plate_model_and_the_fall_table()
     sheet = zone_object(library.get("plywood-12mm-half-sheet"))
     assert sheet.plate is not None
     brick = zone_object(library.get("brick-uk-standard"))
-    result = compute_zone([sheet, brick], ZoneSettings(height=12.0, wind=wind_spec(6.0)))
+    result = compute_zone(
+        [sheet, brick], ZoneSettings(height=12.0, conditions=Conditions(wind=wind_spec(6.0)))
+    )
     for zone in result.objects:
         assert zone.samples >= 1000
         assert math.isfinite(zone.radius)
@@ -323,8 +332,7 @@ def test_no_monte_carlo_sample_lies_beyond_the_worst_case(
     margin = 2.0
     settings = ZoneSettings(
         height=18.0,
-        release=RELEASES[release],
-        wind=WINDS[wind],
+        conditions=Conditions(release=RELEASES[release], wind=WINDS[wind]),
         ground=surface(ground),
         margin=margin,
     )
@@ -346,7 +354,7 @@ def test_throw_envelope_reaches_the_greatest_range_when_the_angle_spread_holds_i
     speed, height = 10.0, 18.0
     settings = ZoneSettings(
         height=height,
-        release=Release("throw", speed=speed, angle=27.5),
+        conditions=Conditions(release=Release("throw", speed=speed, angle=27.5)),
         ground=STOPPING,
         margin=0.0,
         uncertainty=Uncertainty(
@@ -463,7 +471,7 @@ def plan_zone() -> tuple[Site, ZoneSettings, object]:
             WorkEdge("east and south", ((20.0, 10.0), (20.0, 0.0), (0.0, 0.0)), 9.0),
         ),
     )
-    settings = ZoneSettings(height=12.0, wind=wind_spec(8.0), margin=0.0)
+    settings = ZoneSettings(height=12.0, conditions=Conditions(wind=wind_spec(8.0)), margin=0.0)
     objects = [_library_object("combination-spanner-19mm"), _library_object("brick-uk-standard")]
     return site, settings, site_zone(objects, settings, site, wind_outward=True)
 
@@ -530,7 +538,7 @@ def test_site_segments_alike_but_for_their_azimuth_share_one_zone_turned() -> No
     # (compass bearings turn clockwise), and the radii are equal.
     square = ((0.0, 0.0), (10.0, 0.0), (10.0, 10.0), (0.0, 10.0), (0.0, 0.0))
     site = Site(outline=square[:-1], edges=(WorkEdge("all round", square, 10.0),))
-    settings = ZoneSettings(height=10.0, wind=wind_spec(6.0), margin=0.0)
+    settings = ZoneSettings(height=10.0, conditions=Conditions(wind=wind_spec(6.0)), margin=0.0)
     result = site_zone([_library_object("brick-uk-standard")], settings, site, wind_outward=True)
     first = result.segments[0][2]
     for _, _, zone in result.segments[1:]:
@@ -557,8 +565,8 @@ def test_highest_wind_keeps_the_radius_within_the_distance() -> None:
     distance = 25.0  # still air needs about 9 m (a corner strike on concrete sends it sideways)
     wind = highest_wind(objects, settings, distance)
     assert 0.0 < wind < 60.0
-    at = compute_zone(objects, replace(settings, wind=wind_spec(wind)))
-    above = compute_zone(objects, replace(settings, wind=wind_spec(wind + 1.0)))
+    at = compute_zone(objects, settings.with_conditions(wind=wind_spec(wind)))
+    above = compute_zone(objects, settings.with_conditions(wind=wind_spec(wind + 1.0)))
     # The bisection judges the radius on the first 20,000 samples; the full zone may sample
     # more and its quantile moves within its standard error.
     slack = 2.0 * at.driver.standard_error
@@ -568,7 +576,7 @@ def test_highest_wind_keeps_the_radius_within_the_distance() -> None:
 
 def test_greatest_height_keeps_the_radius_within_the_distance() -> None:
     objects = [_library_object("combination-spanner-19mm")]
-    settings = ZoneSettings(height=12.0, wind=wind_spec(6.0))
+    settings = ZoneSettings(height=12.0, conditions=Conditions(wind=wind_spec(6.0)))
     distance = 15.0
     height = greatest_height(objects, settings, distance)
     assert 0.5 < height < 500.0
@@ -581,7 +589,9 @@ def test_highest_wind_is_zero_when_still_air_already_needs_more() -> None:
     # A push of 5 m/s from 20 m travels up to 5 sqrt(2 x 20 / g) = 10.1 m in vacuum; no wind
     # keeps that within 5 m.
     objects = [DENSE]
-    settings = ZoneSettings(height=20.0, release=Release("push", speed=5.0), ground=STOPPING)
+    settings = ZoneSettings(
+        height=20.0, conditions=Conditions(release=Release("push", speed=5.0)), ground=STOPPING
+    )
     assert highest_wind(objects, settings, 5.0) == 0.0
 
 
@@ -625,7 +635,7 @@ def test_different_seeds_give_different_radii_within_the_errors() -> None:
 
 def test_radius_is_drift_plus_scatter_plus_margin_and_the_widest_object_drives() -> None:
     objects = [_library_object("brick-uk-standard"), _library_object("combination-spanner-19mm")]
-    settings = ZoneSettings(height=18.0, wind=wind_spec(8.0), margin=3.0)
+    settings = ZoneSettings(height=18.0, conditions=Conditions(wind=wind_spec(8.0)), margin=3.0)
     result = compute_zone(objects, settings)
     for zone in result.objects:
         assert zone.radius == pytest.approx(zone.drift + zone.scatter + 3.0, abs=1e-9)
@@ -650,7 +660,7 @@ def test_bad_settings_are_refused_naming_the_field(field: str, value: float) -> 
 def test_the_radius_does_not_depend_on_computing_the_envelope() -> None:
     # The inverse questions skip the envelope; the Monte Carlo radius must be the same.
     objects = [_library_object("combination-spanner-19mm"), DENSE]
-    settings = ZoneSettings(height=10.0, wind=wind_spec(5.0))
+    settings = ZoneSettings(height=10.0, conditions=Conditions(wind=wind_spec(5.0)))
     with_envelope = compute_zone(objects, settings)
     without = compute_zone(objects, settings, envelope=False)
     assert without.radius == with_envelope.radius

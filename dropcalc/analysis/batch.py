@@ -21,25 +21,26 @@ from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
-from dropcalc.analysis.fall import CARRIED_AWAY_DISTANCE, wind_field
+from dropcalc.analysis.fall import wind_field
 from dropcalc.errors import DropcalcError, InputError, require_file, shorten
+from dropcalc.model.conditions import Conditions, WithConditions
 from dropcalc.model.limits import (
+    CARRIED_AWAY_DISTANCE,
     MAX_CELL_CHARACTERS,
     MAX_LIST_COLUMNS,
     MAX_LIST_FILE_BYTES,
     MAX_LIST_ROWS,
     MAX_NAME_CHARACTERS,
+    MAX_RELEASE_HEIGHT,
     MAX_XLSX_UNCOMPRESSED_BYTES,
 )
 from dropcalc.model.policy import DEFAULT_RULES, ControlRule, suggest_control
 from dropcalc.model.reference_levels import DEFAULT_LEVEL_KEYS, REFERENCE_LEVELS, ReferenceLevel
-from dropcalc.physics.atmosphere import AirState, air_state
 from dropcalc.physics.drag import drag_parameter
 from dropcalc.physics.impact import impact_from_solution
 from dropcalc.physics.plate import plate_dimensions
-from dropcalc.physics.release import Release, initial_velocity
+from dropcalc.physics.release import initial_velocity
 from dropcalc.physics.trajectory import FallSolution, solve_falls
-from dropcalc.physics.wind import WindSpec, wind_spec
 
 if TYPE_CHECKING:
     import pandas as pd
@@ -47,11 +48,11 @@ if TYPE_CHECKING:
     from dropcalc.io.library import Library
 
 #: Largest release height considered by the inverse solve [m]; above it a level is "never"
-#: reached (the engine's own limit, DESIGN.md: sites up to 5 km).
-MAX_INVERSE_HEIGHT = 5000.0
+#: reached: the largest release height the model accepts.
+MAX_INVERSE_HEIGHT = MAX_RELEASE_HEIGHT
 #: Relative accuracy of the inverse height solve.
 INVERSE_TOLERANCE = 1e-4
-#: Newton iterations at most; the pairs not converged by then keep their bracket's midpoint.
+#: Iterations of the root solve at most.
 MAX_INVERSE_ITERATIONS = 30
 #: Rows solved per engine call (the progress bar advances per chunk).
 CHUNK_ROWS = 4000
@@ -78,23 +79,16 @@ MAX_QUANTITY = 1_000_000
 
 
 @dataclass(frozen=True)
-class BatchSettings:
+class BatchSettings(WithConditions):
     """Inputs shared by every row of a batch (SI units).
 
     Attributes
     ----------
     height : float or None
         Release height for rows without their own ``height``. [m]
-    wind : WindSpec
-        The wind of the day.
-    air : AirState
-        Air density and its basis.
-    gravity : float
-        Acceleration of gravity. [m/s^2]
-    release : Release
-        How items leave the edge (drop or push for a list).
-    edge_azimuth : float
-        Compass direction the edge faces. [deg]
+    conditions : Conditions
+        Air, wind, gravity, release (drop or push for a list) and the edge's direction, read as
+        ``settings.wind`` etc.
     levels : tuple of ReferenceLevel
         Levels to compare with and to solve safe heights for.
     rules : tuple of ControlRule
@@ -102,11 +96,7 @@ class BatchSettings:
     """
 
     height: float | None = None
-    wind: WindSpec = field(default_factory=lambda: wind_spec(0.0))
-    air: AirState = field(default_factory=air_state)
-    gravity: float = 9.80665
-    release: Release = field(default_factory=Release)
-    edge_azimuth: float = 90.0
+    conditions: Conditions = field(default_factory=Conditions)
     levels: tuple[ReferenceLevel, ...] = tuple(REFERENCE_LEVELS[k] for k in DEFAULT_LEVEL_KEYS)
     rules: tuple[ControlRule, ...] = DEFAULT_RULES
 
@@ -142,6 +132,8 @@ class RowError:
     label: str
     object_id: str
     message: str
+    #: The column (model field) the message is about, when it names one.
+    field: str | None = None
 
 
 # --------------------------------------------------------------------------------------------
@@ -315,7 +307,7 @@ def _resolve_row(
             return None
         value = parse_quantity(text, QUANTITY_COLUMNS[name], name)
         if not value > 0:
-            raise InputError(f"{name} must be > 0; got {text!r}")
+            raise InputError(f"{name} must be > 0; got {text!r}", field=name)
         return value
 
     for column, value in record.items():  # extra columns (notes) are not read: any length
@@ -328,7 +320,8 @@ def _resolve_row(
     label = _cell(record, "label")
     if len(label) > MAX_NAME_CHARACTERS:
         raise InputError(
-            f"label: {len(label):,} characters; at most {MAX_NAME_CHARACTERS} are shown"
+            f"label: {len(label):,} characters; at most {MAX_NAME_CHARACTERS} are shown",
+            field="label",
         )
     count_text = _cell(record, "quantity") or "1"
     try:
@@ -338,13 +331,16 @@ def _resolve_row(
     if not (count_value.is_integer() and 1 <= count_value <= MAX_QUANTITY):
         raise InputError(
             f"quantity must be a whole number from 1 to {MAX_QUANTITY:,}; "
-            f"got {shorten(repr(count_text), 40)}"
+            f"got {shorten(repr(count_text), 40)}",
+            field="quantity",
         )
     count = int(count_value)
     own_height = quantity("height")
     height = own_height or settings.height
     if height is None:
-        raise InputError("height is missing: give a 'height' column or --height for the list")
+        raise InputError(
+            "height is missing: give a 'height' column or --height for the list", field="height"
+        )
     contact = quantity("contact_area")
     mass = quantity("mass")
     drag_area = quantity("drag_area")
@@ -363,7 +359,7 @@ def _resolve_row(
         plate = plate_dimensions(obj.shape, obj.dimensions)
     else:
         if mass is None:
-            raise InputError("mass is missing (or give a library id)")
+            raise InputError("mass is missing (or give a library id)", field="mass")
         shape = _cell(record, "shape")
         if drag_area is not None and shape:
             raise InputError("give either drag_area or shape with its dimensions, not both")
@@ -373,14 +369,14 @@ def _resolve_row(
             from dropcalc.physics.shapes import SHAPE_DIMENSIONS, drag_bounds, normalise_shape
 
             shape = normalise_shape(shape)
-            dims = {}
+            dims: dict[str, Any] = {}
             for dim in SHAPE_DIMENSIONS[shape]:
                 column = "depth" if dim == "height" else dim
                 value = quantity(column)
                 if value is None:
-                    raise InputError(f"shape {shape} needs {column}")
+                    raise InputError(f"shape {shape} needs {column}", field="shape")
                 dims[dim] = value
-            bounds = drag_bounds(shape, **dims)
+            bounds = drag_bounds(shape, drag_crisis=False, **dims)
             area_min, area_max = float(bounds.drag_area_min), float(bounds.drag_area_max)
             glides = bool(bounds.glides)
             plate = plate_dimensions(shape, {k: float(v) for k, v in dims.items()})
@@ -420,7 +416,7 @@ def parse_items(
     errors: list[RowError] = []
     # A row equal to an earlier one resolves the same but for its number: a long list repeats
     # a few hundred objects, so each distinct row is read (units, library, checks) once.
-    resolved: dict[tuple[tuple[str, Any], ...], Item | str] = {}
+    resolved: dict[tuple[tuple[str, Any], ...], Item | RowError] = {}
     for index, record in enumerate(frame.to_dict("records")):
         number = index + first_row
         if not any(str(v).strip() for v in record.values()):
@@ -440,11 +436,13 @@ def parse_items(
                     known.drag_area_max,
                 )  # fmt: skip
             except DropcalcError as exc:
-                known = str(exc)
+                known = RowError(
+                    number, _cell(record, "label"), _cell(record, "id"), str(exc), exc.field
+                )
             if key is not None:
                 resolved[key] = known
-        if isinstance(known, str):
-            errors.append(RowError(number, _cell(record, "label"), _cell(record, "id"), known))
+        if isinstance(known, RowError):
+            errors.append(known if known.row == number else replace(known, row=number))
         else:
             items.append(known if known.row == number else replace(known, row=number))
     return items, errors
@@ -523,10 +521,10 @@ def safe_heights(
 ) -> np.ndarray:
     """Greatest release height [m] at which the impact energy stays below each level.
 
-    Solved on the engine itself (same wind, release and air as the batch) by Newton's method on
-    E(H) = level with the slope dE/dH from the impact state, safeguarded by a bracket and
-    bisection, vectorised over all (item, level) pairs, to a relative accuracy of
-    :data:`INVERSE_TOLERANCE` in height. It starts from the closed form of a still-air drop,
+    Solved on the engine itself (same wind, release and air as the batch) by Chandrupatla's
+    bracketing method on E(H) = level (``scipy.optimize.elementwise.find_root``), vectorised
+    over all (item, level) pairs, to a relative accuracy of :data:`INVERSE_TOLERANCE` in
+    height. The bracket is grown by doubling from the closed form of a still-air drop,
     H = -(v_t^2 / 2g) ln(1 - v^2/v_t^2) with v^2 = 2E/m (Timmerman and van der Weele 1999).
     Returns ``inf`` where the level cannot be reached (above the highest impact energy
     possible, 1/2 m (v_t + |v_0| + w_ground)^2, or not reached from :data:`MAX_INVERSE_HEIGHT`)
@@ -593,7 +591,6 @@ def safe_heights(
         vt2 = g / kk
         guess = np.where(v2 < vt2, -vt2 / (2.0 * g) * np.log1p(-v2 / vt2), v2 / (2.0 * g))
     h = np.clip(np.nan_to_num(guess, nan=1.0, posinf=MAX_INVERSE_HEIGHT), 0.01, MAX_INVERSE_HEIGHT)
-    lo = np.zeros(active.size)
     hi = np.full(active.size, np.inf)
     done = np.zeros(active.size, dtype=bool)
     # Past ten relaxation lengths v_t^2/g the impact state no longer depends on the height (the
@@ -606,54 +603,50 @@ def safe_heights(
         h[far[unreached]] = np.inf
         done[far[unreached]] = True
         hi[far[~unreached]] = plateau[far[~unreached]]
-    h_prev = np.full(active.size, np.nan)
-    e_prev = np.full(active.size, np.nan)
-    e_lo = np.zeros(active.size)  # energy at lo (0 at H = 0 for a drop: a safe lower end)
-    e_hi = np.full(active.size, np.nan)
-    for iteration in range(MAX_INVERSE_ITERATIONS):
-        todo = np.flatnonzero(~done)
-        if todo.size == 0:
-            break
-        ht = h[todo]
-        energy, slope = _energy_and_slope(ht, m[todo], kk[todo], settings)
-        below = ~(energy >= level[todo])  # NaN (not landed) counts as below
-        lo[todo] = np.where(below, np.maximum(lo[todo], ht), lo[todo])
-        e_lo[todo] = np.where(below, np.nan_to_num(energy, nan=0.0), e_lo[todo])
-        hi[todo] = np.where(below, hi[todo], np.minimum(hi[todo], ht))
-        e_hi[todo] = np.where(below, e_hi[todo], energy)
-        lower, upper, el, eu = lo[todo], hi[todo], e_lo[todo], e_hi[todo]
-        with np.errstate(divide="ignore", invalid="ignore"):
-            # Newton with the impact-state slope on the first round, then the secant through
-            # the last two rounds (the impact slope is exact only in a height-independent wind).
-            secant = (energy - e_prev[todo]) / (ht - h_prev[todo])
-            use_secant = np.isfinite(secant) & (secant > 0)
-            newton = ht + (level[todo] - energy) / np.where(use_secant, secant, slope)
-            h_prev[todo], e_prev[todo] = ht, energy
-            # Regula falsi inside the bracket; every third round a bisection keeps it shrinking.
-            falsi = lower + (level[todo] - el) * (upper - lower) / (eu - el)
-        bracketed = np.isfinite(upper)
-        inside = (
-            np.isfinite(newton) & (newton > lower) & (newton < np.where(bracketed, upper, np.inf))
-        )
-        fallback = np.where(
-            bracketed,
-            np.where(
-                np.isfinite(falsi) & (falsi > lower) & (falsi < upper) & (iteration % 3 != 2),
-                falsi,
-                0.5 * (lower + upper),
-            ),
-            2.0 * ht + 1.0,
-        )
-        step = np.where(inside, newton, fallback)
-        converged = (np.abs(step - ht) <= INVERSE_TOLERANCE * ht) | (
-            bracketed & (upper - lower <= INVERSE_TOLERANCE * upper)
-        )
-        at_top = below & (ht >= MAX_INVERSE_HEIGHT)
-        h[todo] = np.minimum(step, MAX_INVERSE_HEIGHT)
-        done[todo] = converged | at_top
-        h[todo[at_top]] = np.inf
-    unconverged = ~done & np.isfinite(hi)
-    h[unconverged] = 0.5 * (lo[unconverged] + hi[unconverged])
+    # The rest by Chandrupatla's bracketing method on f(H) = E(H) - level (scipy's elementwise
+    # root finders, vectorised over the pairs). The bracket's lower end is the edge itself
+    # (H = 0: the release energy, below the level); its upper end is the plateau where that was
+    # solved, else grown from the closed-form guess up to MAX_INVERSE_HEIGHT, above which the
+    # level counts as never reached.
+    from scipy.optimize.elementwise import find_root
+
+    speed0_squared = speed0**2
+
+    def excess(
+        height: np.ndarray, mass: np.ndarray, drag: np.ndarray, target: np.ndarray
+    ) -> np.ndarray:
+        height, mass, drag, target = np.broadcast_arrays(np.atleast_1d(height), mass, drag, target)
+        energy: np.ndarray = 0.5 * mass * speed0_squared  # at H = 0, the release itself
+        falls = height > 0
+        if np.any(falls):
+            landed, _ = _energy_and_slope(height[falls], mass[falls], drag[falls], settings)
+            energy[falls] = np.nan_to_num(landed, nan=0.0)  # not landed counts as below
+        difference: np.ndarray = energy - target
+        return difference
+
+    todo = np.flatnonzero(~done)
+    upper = hi[todo]
+    # Grow the upper end from the closed-form guess, doubling, until the level is reached
+    # (the guess is close: still air reaches it there exactly).
+    trial = np.flatnonzero(~np.isfinite(upper))
+    step = h[todo[trial]]
+    while trial.size:
+        pick = todo[trial]
+        reached = excess(step, m[pick], kk[pick], level[pick]) >= 0
+        upper[trial[reached]] = step[reached]
+        top = ~reached & (step >= MAX_INVERSE_HEIGHT)
+        h[pick[top]] = np.inf  # not reached from the highest release height considered
+        keep = ~reached & ~top
+        trial, step = trial[keep], np.minimum(2.0 * step[keep], MAX_INVERSE_HEIGHT)
+    solve = np.isfinite(upper)
+    if np.any(solve):
+        pick = todo[solve]
+        root = find_root(
+            excess, (np.zeros(pick.size), upper[solve]),
+            tolerances={"xrtol": INVERSE_TOLERANCE, "xatol": 0.0},
+            maxiter=MAX_INVERSE_ITERATIONS, args=(m[pick], kk[pick], level[pick]),
+        )  # fmt: skip
+        h[pick] = root.x
     result[active] = h
     return result
 
@@ -725,7 +718,7 @@ def _solve_chunk(
     pair_energy = level_energy.reshape(-1)
     valid = np.isfinite(pair_energy)
     keys = np.stack([pair_mass, pair_k, pair_energy]).T
-    safe = np.full(pair_energy.size, np.nan)
+    safe_pairs = np.full(pair_energy.size, np.nan)
     if np.any(valid):
         unique, inverse = np.unique(keys[valid], axis=0, return_inverse=True)
         pairs = [tuple(key) for key in unique.tolist()]
@@ -737,8 +730,8 @@ def _solve_chunk(
             found = safe_heights(new[:, 0], new[:, 1], new[:, 2], settings)
             memo.update(zip((pairs[i] for i in missing), found.tolist(), strict=True))
         solved = np.array([memo[key] for key in pairs])
-        safe[valid] = solved[inverse.reshape(-1)]
-    safe = safe.reshape(len(levels), n) if levels else safe.reshape(0, n)
+        safe_pairs[valid] = solved[inverse.reshape(-1)]
+    safe = safe_pairs.reshape(len(levels), n)
 
     def num(value: float) -> float | None:
         value = float(value)
@@ -828,7 +821,9 @@ def _plate_rows(rows: list[dict[str, Any]], items: Sequence[Item], settings: Bat
     )
     sheets = [items[i] for i in chosen]
     # Each distinct sheet (dimensions, mass, height) is flown once: a long list repeats a few.
-    keys = np.array([(*it.plate, it.mass, it.height) for it in sheets], dtype=float)
+    keys = np.array(
+        [(*it.plate, it.mass, it.height) for it in sheets if it.plate is not None], dtype=float
+    )
     distinct, inverse = np.unique(keys, axis=0, return_inverse=True)
     found = sweep_rows(
         [tuple(key[:3]) for key in distinct], distinct[:, 3], distinct[:, 4],
@@ -838,7 +833,7 @@ def _plate_rows(rows: list[dict[str, Any]], items: Sequence[Item], settings: Bat
     for j_row, (i, item) in enumerate(zip(chosen, sheets, strict=True)):
         j = int(inverse.reshape(-1)[j_row])
         row = rows[i]
-        length, width, _ = item.plate
+        length, width = float(distinct[j, 0]), float(distinct[j, 1])
         row["lift_off_speed_m_s"] = float(
             lift_off_speed(item.mass, length * width, settings.air.density, settings.gravity)
         )

@@ -7,27 +7,25 @@ for the given wind and, when that wind is a mean speed, for its gust as well, an
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass, field
+from typing import Any
 
 import numpy as np
 
-from dropcalc.errors import InputError, to_float
-from dropcalc.model.checks import _check_range, check_object  # check_object re-exported
+from dropcalc.model.checks import check_object as check_object  # re-exported
+from dropcalc.model.conditions import Conditions, WithConditions
 from dropcalc.model.limits import (  # re-exported for callers
     CARRIED_AWAY_DISTANCE,
-    GRAVITY_RANGE,
 )
-from dropcalc.physics.atmosphere import AirState, air_state
 from dropcalc.physics.drag import drag_parameter
 from dropcalc.physics.impact import Impact, impact_from_solution
-from dropcalc.physics.release import Release, initial_velocity
+from dropcalc.physics.release import initial_velocity
 from dropcalc.physics.trajectory import WindField, solve_falls
-from dropcalc.physics.wind import WindSpec, wind_spec
+from dropcalc.physics.wind import WindSpec
 
 
 @dataclass(frozen=True)
-class FallCase:
+class FallCase(WithConditions):
     """Validated inputs of one fall, SI units.
 
     Attributes
@@ -38,16 +36,8 @@ class FallCase:
         Drag area C_d A of the object. [m^2]
     height : float
         Release height above the landing surface. [m]
-    release : Release
-        How the object leaves the edge.
-    air : AirState
-        Air density and its basis.
-    wind : WindSpec
-        Wind at 10 m, mean or gust, profile and direction.
-    gravity : float
-        Acceleration of gravity. [m/s^2]
-    edge_azimuth : float
-        Compass direction the edge faces (away from the structure). [deg]
+    conditions : Conditions
+        Air, wind, gravity, release and the edge's direction (read as ``case.wind`` etc.).
     contact_area : float or None
         Area that strikes first, for energy per area. [m^2]
     drag_area_max : float or None
@@ -65,11 +55,7 @@ class FallCase:
     mass: float
     drag_area: float
     height: float
-    release: Release = field(default_factory=Release)
-    air: AirState = field(default_factory=air_state)
-    wind: WindSpec = field(default_factory=lambda: wind_spec(0.0, from_direction=270.0))
-    gravity: float = 9.80665
-    edge_azimuth: float = 90.0
+    conditions: Conditions = field(default_factory=Conditions)
     contact_area: float | None = None
     drag_area_max: float | None = None
     object_id: str | None = None
@@ -79,11 +65,6 @@ class FallCase:
 
     def __post_init__(self) -> None:
         check_object(self.mass, self.drag_area, self.height, self.contact_area, self.drag_area_max)
-        _check_range("gravity", self.gravity, *GRAVITY_RANGE, "m/s²")
-        azimuth = to_float("edge_azimuth", self.edge_azimuth, "deg")
-        if not math.isfinite(azimuth):
-            raise InputError(f"edge_azimuth must be a finite angle in degrees; got {azimuth:g}")
-        object.__setattr__(self, "edge_azimuth", azimuth)  # a float from here on, not an int
 
 
 @dataclass(frozen=True)
@@ -182,9 +163,12 @@ def solve_fall(case: FallCase) -> FallResult:
         solution, case.mass, ks, case.gravity, field_of_wind, case.contact_area
     )
     impacts = [_pick(impact, i) for i in range(len(speeds))]
-    max_drag = [_pick(impact, n + i) if case.drag_area_max is not None else None for i in range(n)]
+    max_drag: list[Impact | None] = [
+        _pick(impact, n + i) if case.drag_area_max is not None else None for i in range(n)
+    ]
     if case.plate is not None:  # a sheet: the plate model over its attitudes replaces both
-        impacts, max_drag = _plate_impacts(case, np.array(speeds), v0)
+        impacts, plate_max = _plate_impacts(case, np.array(speeds), v0)
+        max_drag = list(plate_max)
     warnings: list[str] = []
     labels = [case.wind.kind] + (["estimated gust"] if gust_speed is not None else [])
     for label, impact_i, impact_max in zip(labels, impacts, max_drag, strict=True):
@@ -251,7 +235,7 @@ def _plate_impacts(
 
 def _pick(impact: Impact, i: int) -> Impact:
     """Impact of trajectory ``i`` only (arrays of length 1)."""
-    values = {}
+    values: dict[str, Any] = {}
     for name, array in vars(impact).items():
         values[name] = None if array is None else np.asarray(array)[i : i + 1]
     return Impact(**values)

@@ -19,6 +19,8 @@ from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
+from dropcalc.model.conditions import Conditions, opposite_azimuth
+
 if TYPE_CHECKING:
     from dropcalc.analysis.plan import Site
     from dropcalc.analysis.zone import SiteZone, ZoneObject
@@ -258,7 +260,7 @@ def run_job(scenario: Scenario, progress: Callable[[int, int], None] | None = No
     top_height = max(edge.height for a in scenario.work_areas for edge in a.site.edges)
     rows = sort_rows(_object_rows(scenario))
     for row in rows:
-        label = row.get("label") or row.get("name")
+        label = str(row.get("label") or row.get("name"))
         row["zone_radius_m"] = max((a.object_radii.get(label, 0.0) for a in areas), default=None)
     controls = tuple((row_name(row), _row_controls(row, scenario.rules)) for row in rows)
     areas = [replace(a, driver_warnings=_row_warnings(rows, a.driving_object)) for a in areas]
@@ -271,7 +273,9 @@ def run_job(scenario: Scenario, progress: Callable[[int, int], None] | None = No
         controls=controls,
         warnings=_warnings(rows) + _wind_warnings(scenario),
         wind_outward=outward,
-        wind_toward_deg=None if outward else (scenario.wind.from_direction_deg + 180.0) % 360.0,
+        wind_toward_deg=None
+        if outward
+        else float(opposite_azimuth(scenario.wind.from_direction_deg)),
         gust_speed_10m=gust_speed(scenario.wind),
         figures=_figure_inputs(
             scenario, objects, rows, top_height, [a.driving_object for a in areas]
@@ -285,10 +289,7 @@ def zone_settings(scenario: Scenario, area: Any) -> Any:
 
     return ZoneSettings(
         height=max(edge.height for edge in area.site.edges),
-        release=area.release,
-        wind=scenario.wind,
-        air=scenario.air,
-        gravity=scenario.gravity,
+        conditions=Conditions(scenario.air, scenario.wind, scenario.gravity, area.release),
         ground=scenario.ground,
         ground_slope=scenario.ground_slope,
         confidence=scenario.confidence,
@@ -315,17 +316,15 @@ def _object_rows(scenario: Scenario) -> list[dict[str, Any]]:
     """
     from dropcalc.analysis.batch import BatchSettings, solve_items
 
-    toward = (scenario.wind.from_direction_deg + 180.0) % 360.0
+    toward = float(opposite_azimuth(scenario.wind.from_direction_deg))
     best: list[dict[str, Any] | None] = [None] * len(scenario.items)
     for area in scenario.work_areas:
         height = max(edge.height for edge in area.site.edges)
         settings = BatchSettings(
             height=height,
-            wind=scenario.wind,
-            air=scenario.air,
-            gravity=scenario.gravity,
-            release=area.release,
-            edge_azimuth=toward,
+            conditions=Conditions(
+                scenario.air, scenario.wind, scenario.gravity, area.release, toward
+            ),
             levels=scenario.levels,
             rules=scenario.rules,
         )
@@ -455,5 +454,5 @@ def _figure_inputs(
         release_height_m=height,
         initial_velocity=v0,
         wind_speeds=tuple(speeds),
-        side_wind=replace(wind, from_direction_deg=(SIDE_VIEW_AZIMUTH + 180.0) % 360.0),
+        side_wind=replace(wind, from_direction_deg=float(opposite_azimuth(SIDE_VIEW_AZIMUTH))),
     )

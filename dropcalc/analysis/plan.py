@@ -44,7 +44,8 @@ from dropcalc.model.limits import (
     MAX_EDGES,
     MAX_TEXT_FILE_BYTES,
 )
-from dropcalc.model.site import Site, WorkEdge  # re-exported: the site is checked input
+from dropcalc.model.site import Site as Site  # re-exported: the site is checked input
+from dropcalc.model.site import WorkEdge as WorkEdge
 from dropcalc.physics.constants import WGS84_INVERSE_FLATTENING, WGS84_SEMI_MAJOR_AXIS
 
 #: Offset from a segment's midpoint used to decide which side faces away from the outline [m].
@@ -80,7 +81,7 @@ def _signed_distance(
         mid[0] + sign * NORMAL_PROBE_OFFSET * normal[0],
         mid[1] + sign * NORMAL_PROBE_OFFSET * normal[1],
     )
-    distance = outline.exterior.distance(probe)
+    distance = float(outline.exterior.distance(probe))
     return -distance if outline.contains(probe) else distance
 
 
@@ -159,7 +160,7 @@ def footprint(offsets: np.ndarray, confidence: float) -> Polygon:
         raise InputError("offsets must be finite (no NaN or infinity) in m")
     confidence = float(confidence)
     if not (0.0 < confidence <= 1.0):
-        raise InputError(f"confidence must be > 0 and <= 1; got {confidence:g}")
+        raise InputError(f"confidence must be > 0 and <= 1; got {confidence:g}", field="confidence")
     count = array.shape[0]
     keep = min(count, math.ceil(round(confidence * count, 9)))
     order = np.argsort(np.hypot(array[:, 0], array[:, 1]), kind="stable")
@@ -447,7 +448,7 @@ def _lonlat_to_local(lonlat: np.ndarray, origin_lat: float, origin_lon: float) -
     return np.column_stack([east, north])
 
 
-def _ring(coordinates: Sequence[Sequence[float]], origin: tuple[float, float]) -> list:
+def _ring(coordinates: Sequence[Sequence[float]], origin: tuple[float, float]) -> list[list[float]]:
     """A closed GeoJSON ring (first == last, no repeated neighbours after rounding)."""
     converted = _local_to_lonlat(np.asarray(coordinates, dtype=float), *origin).tolist()
     ring = [converted[0]]
@@ -459,7 +460,7 @@ def _ring(coordinates: Sequence[Sequence[float]], origin: tuple[float, float]) -
     return ring
 
 
-def _polygon_rings(polygon: Polygon, origin: tuple[float, float]) -> list:
+def _polygon_rings(polygon: Polygon, origin: tuple[float, float]) -> list[list[list[float]]]:
     oriented = orient(polygon, sign=1.0)  # exterior counter-clockwise, holes clockwise
     rings = [_ring(oriented.exterior.coords, origin)]
     rings.extend(_ring(hole.coords, origin) for hole in oriented.interiors)

@@ -24,7 +24,8 @@ from typing import Any
 
 import numpy as np
 
-from dropcalc.analysis.fall import CARRIED_AWAY_DISTANCE, wind_field
+from dropcalc.analysis.fall import wind_field
+from dropcalc.model.limits import CARRIED_AWAY_DISTANCE
 from dropcalc.physics.plate import PlateGeometry, solve_plate_falls
 from dropcalc.physics.trajectory import FallSolution
 
@@ -359,5 +360,5 @@ def sweep_rows(
     time = per(solution.time)
     return SheetRange(
         speed.max(axis=1), speed.min(axis=1), drift.max(axis=1), drift.min(axis=1),
-        time.min(axis=1), time.max(axis=1), per(solution.landed).all(axis=1),
+        time.min(axis=1), time.max(axis=1), np.asarray(per(solution.landed).all(axis=1)),
     )  # fmt: skip

@@ -16,8 +16,8 @@ from dropcalc.errors import InputError, shorten
 OUTPUT_FORMATS = (".csv", ".xlsx", ".json")
 
 
-def write_atomic(path: Path, write: Callable[[Path], None]) -> None:
-    """Call ``write(temporary_path)`` and rename the result to ``path``.
+def write_atomic(path: Path, write: Callable[[Path], object]) -> None:
+    """Call ``write(temporary_path)`` and rename the result to ``path`` (what it returns is unused).
 
     Raises
     ------

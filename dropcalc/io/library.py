@@ -233,7 +233,7 @@ class DropObject:
             contact.material(self.material)  # an unknown class lists the known ones
         if self.contact_area is not None:
             _positive(self.contact_area, "contact_area_m2", "area", f"{self.contact_area:g}")
-        bounds = shapes.drag_bounds(shape, **dimensions)
+        bounds = shapes.drag_bounds(shape, drag_crisis=False, **dimensions)
         minimum, maximum, typical, basis = _drag_areas(
             bounds, self.drag_area_given, self.drag_area_min_given, self.drag_area_max_given
         )
@@ -294,14 +294,16 @@ def _shape_name(shape: str) -> str:
         return shapes.normalise_shape(shape)
     except UnknownObjectError:
         allowed = ", ".join((*shapes.SHAPES, *shapes.SHAPE_ALIASES))
-        raise InputError(f'shape must be one of {allowed}; got "{shape}"') from None
+        raise InputError(f'shape must be one of {allowed}; got "{shape}"', field="shape") from None
 
 
 def _positive(value: float, name: str, kind: str, raw: str) -> float:
     """Return ``value`` if finite and > 0, else raise InputError in the library's wording."""
     number = float(value)
     if not (math.isfinite(number) and number > 0):
-        raise InputError(f'{name} must be a finite {kind} > 0 {_UNIT_OF_KIND[kind]}; got "{raw}"')
+        raise InputError(
+            f'{name} must be a finite {kind} > 0 {_UNIT_OF_KIND[kind]}; got "{raw}"', field=name
+        )
     return number
 
 
@@ -372,7 +374,9 @@ class Library:
             return self.objects[key]
         except KeyError:
             raise UnknownObjectError(
-                f'unknown object "{shorten(object_id, 60)}"; {_suggest(key, list(self.objects))}'
+                f'unknown object "{shorten(object_id, 60)}"; {_suggest(key, list(self.objects))}',
+                field="id",
+                value=object_id,
             ) from None
 
     def categories(self) -> tuple[str, ...]:
@@ -598,9 +602,13 @@ def _read_csv(path: Path) -> list[DropObject]:
             raise InputError(f"{prefix}{len(row)} cells but only {len(header)} columns in row 1")
         cells = {name: cell.strip() for name, cell in zip(header, row, strict=False)}
         record = _record_from_cells(cells, prefix)
+
+        def locate(_key: str, p: str = prefix) -> str:
+            return p
+
         item = _object_from_record(
             record,
-            lambda _key, p=prefix: p,
+            locate,
             builtin=False,
             default_source=path.name,
             csv_names=True,

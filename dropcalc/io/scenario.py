@@ -14,11 +14,21 @@ import hashlib
 import math
 import re
 import tomllib
+from collections.abc import Iterator
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
-from dropcalc.errors import DropcalcError, InputError, read_file, shorten
+if TYPE_CHECKING:  # loaded with the scenario, in load_scenario
+    from dropcalc.io.library import Library
+    from dropcalc.model.policy import ControlRule
+    from dropcalc.model.reference_levels import ReferenceLevel
+    from dropcalc.physics.atmosphere import AirState
+    from dropcalc.physics.release import Release
+    from dropcalc.physics.scatter import Surface
+    from dropcalc.physics.wind import WindSpec
+
+from dropcalc.errors import DropcalcError, InputError, read_file, require_range, shorten
 from dropcalc.model.limits import (
     MAX_EDGES,
     MAX_NAME_CHARACTERS,
@@ -69,7 +79,7 @@ class WorkArea:
     """One work area: edges with heights, and how objects leave them."""
 
     name: str
-    release: Any  # dropcalc.physics.release.Release
+    release: Release
     site: Any  # dropcalc.analysis.plan.Site (outline shared, this area's edges)
     #: Clear distance available from the work edge (barricade line) [m], or None.
     clear_distance: float | None = None
@@ -82,11 +92,11 @@ class Scenario:
     path: Path
     sha256: str
     job: dict[str, str]
-    air: Any  # AirState
+    air: AirState
     gravity: float
-    wind: Any  # WindSpec
+    wind: WindSpec
     wind_from_given: bool
-    ground: Any  # Surface
+    ground: Surface
     ground_slope: float
     origin: tuple[float, float] | None
     work_areas: tuple[WorkArea, ...]
@@ -95,9 +105,9 @@ class Scenario:
     margin: float
     precision: float
     seed: int
-    levels: tuple[Any, ...]
-    rules: tuple[Any, ...]
-    library: Any
+    levels: tuple[ReferenceLevel, ...]
+    rules: tuple[ControlRule, ...]
+    library: Library
     notes: list[str] = field(default_factory=list)
     #: Where the wind speed was measured: "site" or "open-country" (converted to the site).
     wind_measured: str = "site"
@@ -200,14 +210,21 @@ def load_scenario(path: Path, *, allow_file_references: bool = True) -> Scenario
     """
     from dropcalc.analysis.batch import KNOWN_COLUMNS, BatchSettings, parse_items, read_table
     from dropcalc.io.library import load_library
-    from dropcalc.model.limits import MAX_RELEASE_HEIGHT, MIN_RELEASE_HEIGHT
+    from dropcalc.model.limits import (
+        CONFIDENCE_RANGE,
+        MARGIN_RANGE,
+        MAX_CLEAR_DISTANCE,
+        RELATIVE_ERROR_RANGE,
+        RELEASE_HEIGHT_RANGE,
+        SLOPE_RANGE,
+    )
     from dropcalc.model.policy import DEFAULT_RULES, load_policy
     from dropcalc.model.reference_levels import DEFAULT_LEVEL_KEYS, reference_level
     from dropcalc.model.site import Site, WorkEdge
     from dropcalc.physics.atmosphere import air_state
     from dropcalc.physics.gravity import gravity as local_gravity
     from dropcalc.physics.release import DEFAULT_ROOF_FRICTION, Release
-    from dropcalc.physics.scatter import SLOPE_RANGE, surface
+    from dropcalc.physics.scatter import surface
     from dropcalc.physics.wind import wind_at_site, wind_spec
     from dropcalc.units import parse_direction, parse_quantity
 
@@ -260,11 +277,24 @@ def load_scenario(path: Path, *, allow_file_references: bool = True) -> Scenario
         try:
             return build()
         except DropcalcError as exc:
-            message = str(exc)
-            first = message.split(" ", 1)[0].rstrip(":")
-            if fields and first in fields:  # the model named its own field: use the file's key
-                raise where.error(fields[first], message) from None
-            raise where.error(key_path, message) from None
+            if fields and exc.field in fields:  # the model named its own field: the file's key
+                raise where.error(fields[exc.field], str(exc)) from None
+            raise where.error(key_path, str(exc)) from None
+
+    def in_range(value: Any, key_path: str, limits: tuple[float, float], unit: str = "") -> Any:
+        try:
+            return require_range(key_path, value, *limits, unit)
+        except InputError as exc:
+            raise where.error(key_path, exc.detail) from None
+
+    def tables(raw_list: list[Any], name: str) -> Iterator[tuple[str, dict[str, Any]]]:
+        """Each table of an array of tables ([[name]]) with its key path, keys checked."""
+        for number, raw in enumerate(raw_list, start=1):
+            key = f"{name}[{number}]"
+            if not isinstance(raw, dict):
+                raise where.error(key, "expected a table")
+            check_keys(raw, name, key)
+            yield key, raw
 
     def text_of(value: Any, key_path: str, limit: int = MAX_NAME_CHARACTERS) -> str:
         if not isinstance(value, str | int | float) or isinstance(value, bool):
@@ -309,12 +339,7 @@ def load_scenario(path: Path, *, allow_file_references: bool = True) -> Scenario
     g = model("site.latitude", lambda: local_gravity(latitude, elevation))
     ground = model("site.ground", lambda: surface(site_table.get("ground", "concrete")))
     ground_slope = quantity(site_table.get("ground_slope", "0 deg"), "angle", "site.ground_slope")
-    if not (SLOPE_RANGE[0] <= ground_slope <= SLOPE_RANGE[1]):
-        raise where.error(
-            "site.ground_slope",
-            f"must be between {SLOPE_RANGE[0]:g} and {SLOPE_RANGE[1]:g} deg; "
-            f"got {ground_slope:g} deg",
-        )
+    in_range(ground_slope, "site.ground_slope", SLOPE_RANGE, "deg")
     origin = None
     if "origin" in site_table:
         o = site_table["origin"]
@@ -335,7 +360,7 @@ def load_scenario(path: Path, *, allow_file_references: bool = True) -> Scenario
         "wind",
         lambda: wind_spec(
             speed,
-            kind=text_of(wind_table.get("kind", "mean"), "wind.kind"),
+            kind=text_of(wind_table.get("kind", "mean"), "wind.kind"),  # type: ignore[arg-type]
             from_direction=from_direction,
             profile=wind_table.get("profile"),
             exponent=wind_table.get("exponent"),
@@ -373,14 +398,11 @@ def load_scenario(path: Path, *, allow_file_references: bool = True) -> Scenario
 
     policy = table("policy")
     confidence = number(policy.get("confidence", 0.99), "policy.confidence")
-    if not (0.5 <= confidence <= 0.9999):
-        raise where.error("policy.confidence", f"must be between 0.5 and 0.9999; got {confidence}")
+    in_range(confidence, "policy.confidence", CONFIDENCE_RANGE)
     margin = quantity(policy.get("margin", "2 m"), "length", "policy.margin")
-    if not (0 <= margin <= 100):
-        raise where.error("policy.margin", f"must be between 0 and 100 m; got {margin:g} m")
+    in_range(margin, "policy.margin", MARGIN_RANGE, "m")
     precision = number(policy.get("precision", 0.01), "policy.precision")
-    if not (0.001 <= precision <= 0.2):
-        raise where.error("policy.precision", f"must be between 0.001 and 0.2; got {precision}")
+    in_range(precision, "policy.precision", RELATIVE_ERROR_RANGE)
     raw_seed = policy.get("seed", 1)
     seed = number(raw_seed, "policy.seed", int)
     fractional = isinstance(raw_seed, float) and not raw_seed.is_integer()
@@ -412,11 +434,7 @@ def load_scenario(path: Path, *, allow_file_references: bool = True) -> Scenario
     if len(every_edge) > MAX_EDGES:
         at_most(every_edge, MAX_EDGES, every_edge[MAX_EDGES], "edges in all work areas together")
     areas = []
-    for a, raw in enumerate(raw_areas, start=1):
-        key = f"work_area[{a}]"
-        if not isinstance(raw, dict):
-            raise where.error(key, "expected a table")
-        check_keys(raw, "work_area", key)
+    for a, (key, raw) in enumerate(tables(raw_areas, "work_area"), start=1):
         mode = text_of(raw.get("release", "drop"), f"{key}.release")
         release_speed = (
             quantity(raw["release_speed"], "speed", f"{key}.release_speed")
@@ -453,10 +471,11 @@ def load_scenario(path: Path, *, allow_file_references: bool = True) -> Scenario
         clear_distance = None
         if "clear_distance" in raw:
             clear_distance = quantity(raw["clear_distance"], "length", f"{key}.clear_distance")
-            if not (0.0 < clear_distance <= 5000.0):
+            if not (0.0 < clear_distance <= MAX_CLEAR_DISTANCE):
                 raise where.error(
                     f"{key}.clear_distance",
-                    f"must be a distance above 0 and at most 5000 m; got {clear_distance:g} m",
+                    f"must be a distance above 0 and at most {MAX_CLEAR_DISTANCE:g} m; "
+                    f"got {clear_distance:g} m",
                 )
         raw_edges = raw.get("edge")
         if not isinstance(raw_edges, list) or not raw_edges:
@@ -473,12 +492,7 @@ def load_scenario(path: Path, *, allow_file_references: bool = True) -> Scenario
                 if needed not in raw_edge:
                     raise where.error(f"{edge_key}.{needed}", "missing")
             height = quantity(raw_edge["height"], "length", f"{edge_key}.height")
-            if not (MIN_RELEASE_HEIGHT <= height <= MAX_RELEASE_HEIGHT):
-                raise where.error(
-                    f"{edge_key}.height",
-                    f"must be from {MIN_RELEASE_HEIGHT:g} to {MAX_RELEASE_HEIGHT:g} m; "
-                    f"got {height:g} m",
-                )
+            in_range(height, f"{edge_key}.height", RELEASE_HEIGHT_RANGE, "m")
             name = text_of(raw_edge.get("name", f"edge {e}"), f"{edge_key}.name")
             edges.append(
                 model(
@@ -499,15 +513,12 @@ def load_scenario(path: Path, *, allow_file_references: bool = True) -> Scenario
         raise where.error("object", "expected [[object]] tables")
     at_most(raw_objects, MAX_OBJECTS, f"object[{MAX_OBJECTS + 1}]", "objects")
     items = []
-    settings = BatchSettings(height=max(e.height for w in areas for e in w.site.edges))
+    highest = max(e.height for w in areas for e in w.site.edges)
+    settings = BatchSettings(height=highest)
     import pandas as pd
 
     records = []
-    for o, raw in enumerate(raw_objects, start=1):
-        key = f"object[{o}]"
-        if not isinstance(raw, dict):
-            raise where.error(key, "expected a table")
-        check_keys(raw, "object", key)
+    for key, raw in tables(raw_objects, "object"):
         for k, v in raw.items():
             if k in ("id", "label"):
                 text_of(v, f"{key}.{k}")
@@ -518,11 +529,11 @@ def load_scenario(path: Path, *, allow_file_references: bool = True) -> Scenario
         if errors:
             first = errors[0]
             key = f"object[{first.row - 1}]"
-            word = first.message.split(" ", 1)[0].rstrip(":")
-            if word in _KEYS["object"] or word.startswith("unknown"):
-                key += "." + (word if word in _KEYS["object"] else "id")
+            if first.field in _KEYS["object"]:
+                key += f".{first.field}"
             message = first.message
-            if message.startswith(f"{word}: ") and key.endswith(f".{word}"):
+            word = first.field or ""
+            if word and message.startswith(f"{word}: ") and key.endswith(f".{word}"):
                 message = message[len(word) + 2 :]  # the key path names it already
             raise where.error(key, message)
         items.extend(parsed)
@@ -547,7 +558,7 @@ def load_scenario(path: Path, *, allow_file_references: bool = True) -> Scenario
     if not items:
         raise where.error("object", "no objects: add [[object]] tables or an objects_file")
     for item in items:
-        check_object(item.mass, item.drag_area_min, settings.height, item.contact_area)
+        check_object(item.mass, item.drag_area_min, highest, item.contact_area)
     if origin is not None and not (
         math.isfinite(origin[0]) and -85 <= origin[0] <= 85 and -180 <= origin[1] <= 180
     ):

@@ -7,9 +7,7 @@ is computed.
 
 from __future__ import annotations
 
-import math
-
-from dropcalc.errors import InputError, require_finite_positive, to_float
+from dropcalc.errors import require_finite_positive, require_range
 from dropcalc.model.limits import (
     CONTACT_AREA_RANGE,
     DRAG_AREA_RANGE,
@@ -17,15 +15,6 @@ from dropcalc.model.limits import (
     MAX_RELEASE_HEIGHT,
     MIN_RELEASE_HEIGHT,
 )
-
-
-def _check_range(name: str, value: float, low: float, high: float, unit: str) -> float:
-    v = to_float(name, value, unit)
-    if not (math.isfinite(v) and low <= v <= high):
-        raise InputError(
-            f"{name} must be a finite value from {low:g} to {high:g} {unit}; got {v:g} {unit}"
-        )
-    return v
 
 
 def check_object(
@@ -50,11 +39,11 @@ def check_object(
     drag_area_max : float or None
         Largest drag area, >= ``drag_area``. [m^2]
     """
-    _check_range("mass", mass, *MASS_RANGE, "kg")
-    _check_range("drag_area", drag_area, *DRAG_AREA_RANGE, "m²")
+    require_range("mass", mass, *MASS_RANGE, "kg")
+    require_range("drag_area", drag_area, *DRAG_AREA_RANGE, "m²")
     require_finite_positive("height", height, "m")
-    _check_range("height", height, MIN_RELEASE_HEIGHT, MAX_RELEASE_HEIGHT, "m")
+    require_range("height", height, MIN_RELEASE_HEIGHT, MAX_RELEASE_HEIGHT, "m")
     if drag_area_max is not None:
-        _check_range("drag_area_max", drag_area_max, drag_area, DRAG_AREA_RANGE[1], "m²")
+        require_range("drag_area_max", drag_area_max, drag_area, DRAG_AREA_RANGE[1], "m²")
     if contact_area is not None:
-        _check_range("contact_area", contact_area, *CONTACT_AREA_RANGE, "m²")
+        require_range("contact_area", contact_area, *CONTACT_AREA_RANGE, "m²")

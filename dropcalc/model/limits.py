@@ -1,22 +1,89 @@
 """Every allowed range of dropcalc's inputs, written once.
 
 The model layer checks inputs against these values at the edge (CLI options, scenario, lists,
-files); the physics kernels below trust what they are given. Each limit says its unit and why
-it is where it is. Documented for users in ``docs/limits.md``.
+files) with the one range check, :func:`dropcalc.errors.require_range`; the physics kernels
+below trust what they are given. Each limit says its unit and why it is where it is.
+Documented for users in ``docs/limits.md``.
+
+The ranges of the air, the wind, gravity and the release are checked by their builders in
+:mod:`dropcalc.physics` (``air_state``, ``wind_spec``, ``gravity``, ``Release``), which import
+nothing above them: they are defined there, once, and gathered here so that this module is the
+one table of every allowed range.
 """
 
 from __future__ import annotations
 
+from dropcalc.physics.atmosphere import (
+    DENSITY_RANGE,
+    PRESSURE_RANGE,
+    RELATIVE_HUMIDITY_RANGE,
+    SITE_ELEVATION_RANGE,
+    TEMPERATURE_RANGE,
+)
+from dropcalc.physics.checks import GRAVITY_RANGE
+from dropcalc.physics.constants import STANDARD_GRAVITY
+from dropcalc.physics.gravity import LATITUDE_RANGE
+from dropcalc.physics.release import (
+    FRICTION_RANGE,
+    MAXIMUM_CARRIER_SPEED,
+    MAXIMUM_RELEASE_SPEED,
+    MAXIMUM_ROOF_LENGTH,
+    RELEASE_ANGLE_RANGE,
+    ROOF_PITCH_RANGE,
+)
+from dropcalc.physics.scatter import SLOPE_RANGE
+from dropcalc.physics.wind import (
+    EXPONENT_RANGE,
+    MAXIMUM_WIND_SPEED,
+    MINIMUM_HEIGHT_RANGE,
+    ROUGHNESS_LENGTH_RANGE,
+)
+
+__all__ = [
+    "CARRIED_AWAY_DISTANCE",
+    "CONFIDENCE_RANGE",
+    "CONTACT_AREA_RANGE",
+    "DEFAULT_GRAVITY",
+    "DENSITY_RANGE",
+    "DRAG_AREA_RANGE",
+    "EXPONENT_RANGE",
+    "FRICTION_RANGE",
+    "GRAVITY_RANGE",
+    "LATITUDE_RANGE",
+    "MARGIN_RANGE",
+    "MASS_RANGE",
+    "MAX_CLEAR_DISTANCE",
+    "MAXIMUM_CARRIER_SPEED",
+    "MAXIMUM_RELEASE_SPEED",
+    "MAXIMUM_ROOF_LENGTH",
+    "MAXIMUM_WIND_SPEED",
+    "MAX_RELEASE_HEIGHT",
+    "MINIMUM_HEIGHT_RANGE",
+    "MIN_RELEASE_HEIGHT",
+    "PRESSURE_RANGE",
+    "RELATIVE_ERROR_RANGE",
+    "RELATIVE_HUMIDITY_RANGE",
+    "RELEASE_ANGLE_RANGE",
+    "RELEASE_HEIGHT_RANGE",
+    "ROOF_PITCH_RANGE",
+    "ROUGHNESS_LENGTH_RANGE",
+    "SLOPE_RANGE",
+    "SITE_ELEVATION_RANGE",
+    "TEMPERATURE_RANGE",
+    "TURBULENCE_RANGE",
+    "UNCERTAINTY_RANGES",
+]
+
 # --- the falling object and its release ------------------------------------------------------
 
 #: Largest release height the model accepts [m]: the ISA troposphere and the point-mass model
-#: are not meant for more (the site elevation is limited separately to 5000 m).
+#: are not meant for more (the site elevation is limited separately to 5000 m). The inverse
+#: solves (safe heights) search up to it as well.
 MAX_RELEASE_HEIGHT = 5000.0
 #: Smallest release height accepted [m]: a drop from a hand's height, 1 cm.
 MIN_RELEASE_HEIGHT = 0.01
-#: Acceleration of gravity accepted [m/s^2]: anywhere on or near the Earth's surface (normal
-#: gravity 9.780 at the equator to 9.832 at the poles, WGS84; less at altitude).
-GRAVITY_RANGE = (9.7, 9.9)
+#: Release heights accepted [m].
+RELEASE_HEIGHT_RANGE = (MIN_RELEASE_HEIGHT, MAX_RELEASE_HEIGHT)
 #: Mass range accepted [kg]: a 1 g fragment up to a 100 t lifted load.
 MASS_RANGE = (1e-4, 1e5)
 #: Drag area range accepted [m^2].
@@ -27,6 +94,43 @@ CONTACT_AREA_RANGE = (1e-8, 10.0)
 #: a site's drop zone is measured in metres to tens of metres; an object that the wind takes
 #: beyond a kilometre is windborne debris, not a drop the zone can bound.
 CARRIED_AWAY_DISTANCE = 1000.0
+#: Acceleration of gravity when none is given [m/s^2]: standard gravity (CGPM 1901).
+DEFAULT_GRAVITY = STANDARD_GRAVITY
+
+# --- the zone: confidence, margin and sampling precision ------------------------------------
+
+#: Largest distance a work area may be kept clear to (``work_area.clear_distance``) [m]: the
+#: longest release height; a clear distance is asked for that height and the day's wind.
+MAX_CLEAR_DISTANCE = 5000.0
+
+#: Share of simulated drops the zone radius must hold [-]: at least an even chance, and short
+#: of certainty (a quantile at 1 needs infinitely many samples).
+CONFIDENCE_RANGE = (0.5, 0.9999)
+#: Margin added to the zone radius [m]: none up to 100 m.
+MARGIN_RANGE = (0.0, 100.0)
+#: Target standard error of the zone radius relative to it (``--precision``,
+#: ``policy.precision``, ``ZoneSettings.relative_error``) [-]: 0.1 % to 20 %.
+RELATIVE_ERROR_RANGE = (0.001, 0.2)
+
+# --- the spreads sampled by the zone's Monte Carlo (``Uncertainty``) ---------------------------
+
+#: Allowed range of each spread of :class:`dropcalc.analysis.zone.Uncertainty` (units as
+#: there: degrees for directions and angles, fractions otherwise). Wide enough for any
+#: considered choice, narrow enough that a sampled value stays physical (a drag coefficient
+#: spread of 100 % would reach zero drag). Common practice, no source.
+UNCERTAINTY_RANGES: dict[str, tuple[float, float]] = {
+    "direction_spread": (0.0, 90.0),
+    "release_direction_spread": (0.0, 90.0),
+    "release_speed_low": (0.0, 1.0),
+    "release_angle_spread": (0.0, 45.0),
+    "friction_spread": (0.0, 0.9),
+    "drag_coefficient_spread": (0.0, 0.5),
+    "density_spread": (0.0, 0.3),
+}
+#: Allowed turbulence intensity I_v of the sampled wind speed [-]. EN 1991-1-4 eq. 4.7 at 10 m,
+#: I_v = 1 / ln(z / z0), gives 0.12 for category 0 (z0 = 0.003 m) to 0.43 for category IV
+#: (z0 = 1 m); the upper end 0.6 is common practice, no source.
+TURBULENCE_RANGE = (0.0, 0.6)
 
 
 # --- file and text sizes ---------------------------------------------------------------------

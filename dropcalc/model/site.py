@@ -22,27 +22,37 @@ from dropcalc.model.limits import (
 )
 
 
-def _points(field: str, points: Sequence[Sequence[float]]) -> tuple[tuple[float, float], ...]:
+def _points(
+    field: str, points: Sequence[Sequence[float]], key: str
+) -> tuple[tuple[float, float], ...]:
     """Return ``points`` as a tuple of finite (x, y) float pairs within the site, or raise."""
     count = len(points) if isinstance(points, Sequence) else 0
     if count > MAX_EDGE_POINTS:
-        raise InputError(f"{field}: {count:,} points; at most {MAX_EDGE_POINTS:,} (docs/limits.md)")
+        raise InputError(
+            f"{field}: {count:,} points; at most {MAX_EDGE_POINTS:,} (docs/limits.md)", field=key
+        )
     try:
         array = np.asarray(points, dtype=float)
     except (TypeError, ValueError):
-        raise InputError(f"{field} must be a sequence of (x, y) pairs in metres") from None
+        raise InputError(
+            f"{field} must be a sequence of (x, y) pairs in metres", field=key
+        ) from None
     if array.ndim != 2 or array.shape[1] != 2:
         raise InputError(
-            f"{field} must be a sequence of (x, y) pairs in metres; got shape {array.shape}"
+            f"{field} must be a sequence of (x, y) pairs in metres; got shape {array.shape}",
+            field=key,
         )
     if not np.all(np.isfinite(array)):
         bad = int(np.flatnonzero(~np.all(np.isfinite(array), axis=1))[0])
-        raise InputError(f"{field}[{bad}] must be finite coordinates in m; got {points[bad]}")
+        raise InputError(
+            f"{field}[{bad}] must be finite coordinates in m; got {points[bad]}", field=key
+        )
     if array.size and np.max(np.abs(array)) > MAX_COORDINATE:
         bad = int(np.flatnonzero(np.any(np.abs(array) > MAX_COORDINATE, axis=1))[0])
         raise InputError(
             f"{field}[{bad}]: coordinates within ±{MAX_COORDINATE:,.0f} m of the origin "
-            f"(a site fits in a few km); got ({array[bad, 0]:.6g}, {array[bad, 1]:.6g})"
+            f"(a site fits in a few km); got ({array[bad, 0]:.6g}, {array[bad, 1]:.6g})",
+            field=key,
         )
     return tuple((float(x), float(y)) for x, y in array)
 
@@ -73,17 +83,21 @@ class WorkEdge:
         if len(str(self.name)) > MAX_NAME_CHARACTERS:
             raise InputError(
                 f"work edge name: {len(str(self.name)):,} characters; at most "
-                f"{MAX_NAME_CHARACTERS} (docs/limits.md)"
+                f"{MAX_NAME_CHARACTERS} (docs/limits.md)",
+                field="name",
             )
         field = f"work edge {self.name!r}"
-        points = _points(f"{field} points", self.points)
+        points = _points(f"{field} points", self.points, "points")
         if len(points) < 2:
-            raise InputError(f"{field} points must hold at least 2 points; got {len(points)}")
+            raise InputError(
+                f"{field} points must hold at least 2 points; got {len(points)}", field="points"
+            )
         for index, (start, end) in enumerate(zip(points[:-1], points[1:], strict=True)):
             if start == end:
                 raise InputError(
                     f"{field} segment {index} has zero length (point {start} repeated); "
-                    "consecutive points must differ"
+                    "consecutive points must differ",
+                    field="points",
                 )
         height = require_finite_positive(f"{field} height", self.height, "m")
         if len(points) > 2:
@@ -120,18 +134,20 @@ class Site:
 
     def __post_init__(self) -> None:
         if self.outline is not None:
-            points = _points("outline", self.outline)
+            points = _points("outline", self.outline, "outline")
             distinct = set(points)
             if len(distinct) < 3:
                 raise InputError(
-                    f"outline must have at least 3 distinct points; got {len(distinct)}"
+                    f"outline must have at least 3 distinct points; got {len(distinct)}",
+                    field="outline",
                 )
             polygon = Polygon(points)
             if not polygon.is_valid or polygon.area <= 0.0:
                 reason = shapely.is_valid_reason(polygon)
                 raise InputError(
                     "outline must be a simple polygon (no self-intersection, non-zero area); "
-                    f"got {reason}"
+                    f"got {reason}",
+                    field="outline",
                 )
             object.__setattr__(self, "outline", points)
         edges = tuple(self.edges)

@@ -21,7 +21,7 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
-from dropcalc.errors import InputError
+from dropcalc.errors import require_range_array
 from dropcalc.physics.constants import (
     CIPM2007_CO2_MOLAR_MASS_COEFFICIENT,
     CIPM2007_MOLAR_GAS_CONSTANT,
@@ -79,23 +79,9 @@ _Z_E = -0.765e-8  # [K^2 Pa^-2]
 
 def _checked(
     name: str, values: ArrayLike, bounds: tuple[float, float], unit: str, note: str = ""
-) -> NDArray:
+) -> NDArray[np.float64]:
     """Return ``values`` as a float array, or raise InputError naming the first bad element."""
-    try:
-        array = np.asarray(values, dtype=float)
-    except OverflowError:
-        raise InputError(f"{name} must be a finite number; got {values!r:.40}") from None
-    except (TypeError, ValueError):
-        raise InputError(f"{name} must be a number; got {values!r:.40}") from None
-    low, high = bounds
-    bad = ~((array >= low) & (array <= high))  # NaN compares False, so it is caught here
-    if bad.any():
-        unit = f" {unit}" if unit else ""
-        raise InputError(
-            f"{name} must be between {low:g} and {high:g}{unit}{note}; "
-            f"got {array[bad].flat[0]:g}{unit}"
-        )
-    return array
+    return require_range_array(name, values, *bounds, unit, note)
 
 
 def geopotential_height(geometric_height: ArrayLike) -> NDArray[np.float64]:

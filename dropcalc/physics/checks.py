@@ -5,7 +5,7 @@ from __future__ import annotations
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
-from dropcalc.errors import InputError
+from dropcalc.errors import InputError, require_range_array
 
 
 def as_samples(name: str, value: ArrayLike) -> NDArray[np.float64]:
@@ -13,17 +13,19 @@ def as_samples(name: str, value: ArrayLike) -> NDArray[np.float64]:
     try:
         array = np.asarray(value, dtype=float)
     except OverflowError:
-        raise InputError(f"{name} must be a finite number; got {value!r:.40}") from None
+        raise InputError(f"{name} must be a finite number; got {value!r:.40}", field=name) from None
     except (TypeError, ValueError):
         raise InputError(
-            f"{name} must be a number or a 1-D array of numbers; got {value!r}"
+            f"{name} must be a number or a 1-D array of numbers; got {value!r}", field=name
         ) from None
     if array.ndim > 1:
-        raise InputError(f"{name} must be a number or a 1-D array; got shape {array.shape}")
+        raise InputError(
+            f"{name} must be a number or a 1-D array; got shape {array.shape}", field=name
+        )
     return array
 
 
-def first_bad(array: NDArray, good: NDArray) -> float:
+def first_bad(array: NDArray[np.float64], good: NDArray[np.bool_]) -> float:
     """First element of ``array`` where ``good`` is False (NaN counts as bad)."""
     return float(np.broadcast_to(array, np.shape(good))[~good].flat[0])
 
@@ -36,10 +38,4 @@ GRAVITY_RANGE = (9.7, 9.9)
 def check_gravity(gravity: ArrayLike) -> NDArray[np.float64]:
     """Return ``gravity`` as an array, or raise InputError if outside :data:`GRAVITY_RANGE`."""
     g = as_samples("gravity", gravity)
-    good = (g >= GRAVITY_RANGE[0]) & (g <= GRAVITY_RANGE[1])
-    if not np.all(good):
-        raise InputError(
-            f"gravity must be between {GRAVITY_RANGE[0]:g} and {GRAVITY_RANGE[1]:g} m/s² "
-            f"(the Earth's surface); got {first_bad(g, good):g} m/s²"
-        )
-    return g
+    return require_range_array("gravity", g, *GRAVITY_RANGE, "m/s²", " (the Earth's surface)")

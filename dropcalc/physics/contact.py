@@ -295,7 +295,9 @@ def body(shape: str, dimensions: Mapping[str, float]) -> Body:
         radius = float(dimensions["diameter"]) / 2
         square = 0.4 * radius * radius
         return Body("sphere", (radius,) * 3, (square,) * 3, radius, 0.4)
-    raise UnknownObjectError(f"shape must be a shape class of the library; got {shape!r}")
+    raise UnknownObjectError(
+        f"shape must be a shape class of the library; got {shape!r}", field="shape"
+    )
 
 
 def cube_body(drag_area: float) -> Body:
@@ -840,9 +842,15 @@ def after_landing(
         broke = impact_speed > break_speed
         if np.any(broke):
             throw = fragment_travel(
-                impact_speed, fragment_speed, fragment_angle, mu, e_ref, slope, gravity=g
+                impact_speed,
+                fragment_speed,  # type: ignore[arg-type]  # given whenever break_speed is
+                fragment_angle,  # type: ignore[arg-type]
+                mu,
+                e_ref,
+                slope,
+                gravity=g,
             )
-            direction = np.vstack([np.sin(fragment_azimuth), np.cos(fragment_azimuth)])
+            direction = np.vstack([np.sin(fragment_azimuth), np.cos(fragment_azimuth)])  # type: ignore[arg-type]
             offset = np.where(broke, throw * direction, offset)
             fragments = np.where(broke, throw, 0.0)
             zero = np.zeros(n)

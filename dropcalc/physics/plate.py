@@ -98,7 +98,7 @@ from dropcalc.physics.trajectory import (
     _combine,
     _hermite_root,
 )
-from dropcalc.physics.wind import speed_ratio
+from dropcalc.physics.wind import ProfileKind, speed_ratio
 
 #: Name of the coefficient set, shown in the report's method text and in ``fall``'s output.
 TACHIKAWA_HOLMES_PLATE = (
@@ -181,7 +181,7 @@ def tachikawa_number(
     area: ArrayLike,
     mass: ArrayLike,
     gravity: ArrayLike = STANDARD_GRAVITY,
-) -> NDArray:
+) -> NDArray[np.float64]:
     """Tachikawa number K = rho U^2 S / (2 m g) [-] (Tachikawa 1983).
 
     The ratio of the aerodynamic force scale to the weight: K -> 0 is a heavy plate that falls
@@ -193,7 +193,12 @@ def tachikawa_number(
     )  # fmt: skip
 
 
-def _rhs(state: NDArray, p: NDArray, profile: str, out: NDArray) -> None:
+def _rhs(
+    state: NDArray[np.float64],
+    p: NDArray[np.float64],
+    profile: ProfileKind,
+    out: NDArray[np.float64],
+) -> None:
     """d(state)/dt; state rows x, z, y, u, w, v, theta, omega (plane, up, cross)."""
     z, u, w, v, theta, omega = state[1], state[3], state[4], state[5], state[6], state[7]
     uniform = profile == "uniform"
@@ -241,14 +246,14 @@ def _rhs(state: NDArray, p: NDArray, profile: str, out: NDArray) -> None:
 
 
 def _step(
-    state: NDArray,
-    slope0: NDArray,
-    p: NDArray,
-    profile: str,
-    h: NDArray,
+    state: NDArray[np.float64],
+    slope0: NDArray[np.float64],
+    p: NDArray[np.float64],
+    profile: ProfileKind,
+    h: NDArray[np.float64],
     rtol: float,
-    scale: NDArray,
-) -> tuple[NDArray, NDArray, NDArray]:
+    scale: NDArray[np.float64],
+) -> tuple[NDArray[np.float64], NDArray[np.float64], NDArray[np.float64]]:
     """One Dormand-Prince 5(4) step: new state, its derivative, error ratio."""  # fmt: skip
     m = state.shape[1]
     stages = np.empty((7, 8, m))
@@ -399,16 +404,18 @@ def solve_plate_falls(
     velocity = np.zeros((3, n))
     landed = np.zeros(n, dtype=bool)
     steps = np.zeros(n, dtype=np.int64)
-    records: list[NDArray] | None = [] if record_path else None
+    records: list[NDArray[np.float64]] | None = [] if record_path else None
 
-    def to_ground(st: NDArray, lanes: NDArray) -> tuple[NDArray, NDArray]:
+    def to_ground(
+        st: NDArray[np.float64], lanes: NDArray[np.float64]
+    ) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
         """Ground-frame position (3, k) and velocity (3, k) of plane-frame states."""
         l_px, l_py, l_cx, l_cy = px[lanes], py[lanes], cx[lanes], cy[lanes]
         pos = np.vstack([st[0] * l_px + st[2] * l_cx, st[0] * l_py + st[2] * l_cy, st[1]])
         vel = np.vstack([st[3] * l_px + st[5] * l_cx, st[3] * l_py + st[5] * l_cy, st[4]])
         return pos, vel
 
-    def record(st: NDArray, p: NDArray) -> None:
+    def record(st: NDArray[np.float64], p: NDArray[np.float64]) -> None:
         if records is not None:
             lanes = p[_LANE].astype(np.int64)
             pos, vel = to_ground(st, lanes)

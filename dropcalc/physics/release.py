@@ -35,7 +35,7 @@ from types import MappingProxyType
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
-from dropcalc.errors import InputError, UnknownObjectError
+from dropcalc.errors import InputError, UnknownObjectError, require_range_array
 from dropcalc.physics.checks import as_samples as _as_samples
 from dropcalc.physics.checks import check_gravity
 from dropcalc.physics.checks import first_bad as _first_bad
@@ -148,19 +148,22 @@ class Release:
         if self.mode not in RELEASE_MODES:
             raise UnknownObjectError(
                 f"release_mode {self.mode!r} is not known; valid release modes: "
-                f"{', '.join(RELEASE_MODES)}"
+                f"{', '.join(RELEASE_MODES)}",
+                field="release_mode",
             )
         speed = _as_samples("release_speed", self.speed)
         if not np.all(speed >= 0.0):  # NaN fails too
             raise InputError(
                 "release_speed must be a finite speed >= 0 m/s; "
-                f"got {_first_bad(speed, speed >= 0):g} m/s"
+                f"got {_first_bad(speed, speed >= 0):g} m/s",
+                field="release_speed",
             )
         if not np.all(speed <= MAXIMUM_RELEASE_SPEED):
             raise InputError(
                 f"release_speed must be at most {MAXIMUM_RELEASE_SPEED:g} m/s (a thrown or kicked "
                 "tool does not exceed this); "
-                f"got {_first_bad(speed, speed <= MAXIMUM_RELEASE_SPEED):g} m/s"
+                f"got {_first_bad(speed, speed <= MAXIMUM_RELEASE_SPEED):g} m/s",
+                field="release_speed",
             )
         _check_range(
             "release_angle",
@@ -180,11 +183,14 @@ class Release:
             " (0.4 solid sphere, 0.5 solid cylinder, 1.0 thin-walled tube)",
         )
         if not isinstance(self.rolling, bool | np.bool_):
-            raise InputError(f"rolling must be true or false; got {self.rolling!r}")
+            raise InputError(
+                f"rolling must be true or false; got {self.rolling!r}", field="rolling"
+            )
         if len(tuple(self.carrier_velocity)) != 3:
             raise InputError(
                 "carrier_velocity must have 3 components (east, north, up) in m/s; "
-                f"got {len(tuple(self.carrier_velocity))}"
+                f"got {len(tuple(self.carrier_velocity))}",
+                field="carrier_velocity",
             )
         for axis, component in zip(_CARRIER_AXES, self.carrier_velocity, strict=True):
             _check_range(
@@ -248,7 +254,8 @@ class Release:
                     remedy, context = "set rolling", " without rolling"
                 raise InputError(
                     f"{name} is used only {users}; got it with release mode {self.mode!r}"
-                    f"{context}: remove it or {remedy}"
+                    f"{context}: remove it or {remedy}",
+                    field=name,
                 )
 
 
@@ -415,7 +422,8 @@ def initial_velocity(
     if not np.all(np.isfinite(azimuth)):
         raise InputError(
             f"edge_azimuth must be a finite angle in deg (or a 1-D array of them); got "
-            f"{_first_bad(azimuth, np.isfinite(azimuth)):g} deg"
+            f"{_first_bad(azimuth, np.isfinite(azimuth)):g} deg",
+            field="edge_azimuth",
         )
     g = _checked_gravity(gravity)
     fields = release._numeric_fields()
@@ -507,21 +515,23 @@ def describe(release: Release, gravity: float = STANDARD_GRAVITY) -> str:
 # --- mode kernels: (outward speed, upward speed) in the plane of the edge normal -------------
 
 
-def _drop_speeds(release: Release, gravity: NDArray) -> tuple[ArrayLike, ArrayLike]:
+def _drop_speeds(release: Release, gravity: NDArray[np.float64]) -> tuple[ArrayLike, ArrayLike]:
     return 0.0, 0.0
 
 
-def _push_speeds(release: Release, gravity: NDArray) -> tuple[ArrayLike, ArrayLike]:
+def _push_speeds(release: Release, gravity: NDArray[np.float64]) -> tuple[ArrayLike, ArrayLike]:
     return np.asarray(release.speed, dtype=float), 0.0
 
 
-def _throw_speeds(release: Release, gravity: NDArray) -> tuple[ArrayLike, ArrayLike]:
+def _throw_speeds(release: Release, gravity: NDArray[np.float64]) -> tuple[ArrayLike, ArrayLike]:
     speed = np.asarray(release.speed, dtype=float)
     elevation = np.radians(np.asarray(release.angle, dtype=float))
     return speed * np.cos(elevation), speed * np.sin(elevation)
 
 
-def _roof_slide_speeds(release: Release, gravity: NDArray) -> tuple[ArrayLike, ArrayLike]:
+def _roof_slide_speeds(
+    release: Release, gravity: NDArray[np.float64]
+) -> tuple[ArrayLike, ArrayLike]:
     speed = _check_roof_slide(
         release.roof_pitch,
         release.roof_length,
@@ -535,15 +545,15 @@ def _roof_slide_speeds(release: Release, gravity: NDArray) -> tuple[ArrayLike, A
     return speed * np.cos(pitch), -speed * np.sin(pitch)
 
 
-_MODE_SPEEDS: MappingProxyType[str, Callable[[Release, NDArray], tuple[ArrayLike, ArrayLike]]] = (
-    MappingProxyType(
-        {
-            "drop": _drop_speeds,
-            "push": _push_speeds,
-            "throw": _throw_speeds,
-            "roof-slide": _roof_slide_speeds,
-        }
-    )
+_MODE_SPEEDS: MappingProxyType[
+    str, Callable[[Release, NDArray[np.float64]], tuple[ArrayLike, ArrayLike]]
+] = MappingProxyType(
+    {
+        "drop": _drop_speeds,
+        "push": _push_speeds,
+        "throw": _throw_speeds,
+        "roof-slide": _roof_slide_speeds,
+    }
 )
 
 
@@ -553,16 +563,7 @@ _MODE_SPEEDS: MappingProxyType[str, Callable[[Release, NDArray], tuple[ArrayLike
 def _check_range(
     name: str, value: ArrayLike, bounds: tuple[float, float], unit: str, note: str = ""
 ) -> NDArray[np.float64]:
-    array = _as_samples(name, value)
-    low, high = bounds
-    good = (array >= low) & (array <= high)  # NaN compares False
-    if not np.all(good):
-        unit = f" {unit}" if unit else ""
-        raise InputError(
-            f"{name} must be finite and between {low:g} and {high:g}{unit}{note}; "
-            f"got {_first_bad(array, good):g}{unit}"
-        )
-    return array
+    return require_range_array(name, _as_samples(name, value), *bounds, unit, note)
 
 
 def _checked_gravity(gravity: ArrayLike) -> NDArray[np.float64]:
@@ -576,14 +577,17 @@ def _broadcast_length(fields: dict[str, ArrayLike]) -> int | None:
     for name, value in fields.items():
         shape = np.shape(value)
         if len(shape) > 1:
-            raise InputError(f"{name} must be a number or a 1-D array; got shape {shape}")
+            raise InputError(
+                f"{name} must be a number or a 1-D array; got shape {shape}", field=name
+            )
         if len(shape) == 1:
             if length is None:
                 length, first = shape[0], name
             elif shape[0] != length:
                 raise InputError(
                     f"{name} has {shape[0]} samples but {first} has {length}; arrays must have "
-                    "the same length"
+                    "the same length",
+                    field=name,
                 )
     return length
 
@@ -603,7 +607,8 @@ def _check_roof_slide(
     if not np.all(good):
         raise InputError(
             f"roof_length must be a finite length > 0 and <= {MAXIMUM_ROOF_LENGTH:g} m for "
-            f"release mode 'roof-slide'; got {_first_bad(length, good):g} m"
+            f"release mode 'roof-slide'; got {_first_bad(length, good):g} m",
+            field="roof_length",
         )
     g = np.asarray(gravity, dtype=float)
     pitch, mu, v0, length, g, k = np.broadcast_arrays(
@@ -622,12 +627,14 @@ def _check_roof_slide(
         if rolling or f == 0:
             raise InputError(
                 f"roof_pitch {p:g} deg is too shallow for an object to start moving (needs more "
-                "than 0 deg, or a release_speed along the slope); choose another release mode"
+                "than 0 deg, or a release_speed along the slope); choose another release mode",
+                field="roof_pitch",
             )
         raise InputError(
             f"roof_pitch {p:g} deg is too shallow for an object to slide with friction {f:g} "
             f"(needs more than {math.degrees(math.atan(f)):.1f} deg, the friction angle "
-            f"atan({f:g})); lower the friction or choose another release mode"
+            f"atan({f:g})); lower the friction or choose another release mode",
+            field="roof_pitch",
         )
     squared = v0**2 + 2.0 * acceleration * length
     # Only a decelerating object can stop (v0^2 of a tiny v0 underflows to 0 without that).
@@ -639,7 +646,8 @@ def _check_roof_slide(
             f"roof_pitch {float(np.atleast_1d(pitch)[i]):g} deg with friction "
             f"{float(np.atleast_1d(mu)[i]):g}: an object starting at release_speed {v:g} m/s "
             f"stops {v * v / (-2.0 * a):.2f} m down the roof, before the eave {s:g} m away; "
-            "raise release_speed, lower the friction or choose another release mode"
+            "raise release_speed, lower the friction or choose another release mode",
+            field="roof_pitch",
         )
     exit_speed = np.sqrt(np.maximum(squared, 0.0))
     return np.where(acceleration >= 0, np.maximum(exit_speed, v0), exit_speed)

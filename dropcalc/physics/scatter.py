@@ -161,5 +161,5 @@ def surface(name: str | Surface) -> Surface:
         return SURFACES[key]
     except KeyError:
         raise UnknownObjectError(
-            f"surface must be one of {', '.join(surface_names())}; got {name!r}"
+            f"surface must be one of {', '.join(surface_names())}; got {name!r}", field="surface"
         ) from None

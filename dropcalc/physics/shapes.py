@@ -236,7 +236,8 @@ def normalise_shape(name: str) -> str:
     aliases = ", ".join(f"{alias} ({target})" for alias, target in SHAPE_ALIASES.items())
     raise UnknownObjectError(
         f"shape must be one of {', '.join(SHAPES)} or an alias {aliases}; "
-        f"got {shorten(repr(name), 60)}"
+        f"got {shorten(repr(name), 60)}",
+        field="shape",
     )
 
 
@@ -250,9 +251,13 @@ def _length(name: str, value: object) -> FloatArray:
     try:
         array = np.asarray(value, dtype=float)
     except (TypeError, ValueError, OverflowError):
-        raise InputError(f"{name} must be a finite length > 0 m; got {value!r:.40}") from None
+        raise InputError(
+            f"{name} must be a finite length > 0 m; got {value!r:.40}", field=name
+        ) from None
     if array.ndim > 1:
-        raise InputError(f"{name} must be a float or a 1-D array; got an array of {array.ndim} D")
+        raise InputError(
+            f"{name} must be a float or a 1-D array; got an array of {array.ndim} D", field=name
+        )
     low, high = DIMENSION_RANGE
     bad = ~((array >= low) & (array <= high))  # NaN compares False
     if np.any(bad):
@@ -261,7 +266,8 @@ def _length(name: str, value: object) -> FloatArray:
         where = f" (row {index})" if array.ndim == 1 else ""
         raise InputError(
             f"{name} must be a finite length > 0 m; got {flat[index]:g} m{where} "
-            f"(allowed: {low:g} to {high:g} m)"
+            f"(allowed: {low:g} to {high:g} m)",
+            field=name,
         )
     return array
 
@@ -287,7 +293,8 @@ def _dimensions(shape: str, dimensions: Mapping[str, object]) -> tuple[str, list
     missing = [name for name in required if name not in dimensions]
     if missing:
         raise InputError(
-            f"shape {canonical} needs {', '.join(required)} (m); missing {', '.join(missing)}"
+            f"shape {canonical} needs {', '.join(required)} (m); missing {', '.join(missing)}",
+            field="shape",
         )
     values = [_length(name, dimensions[name]) for name in required]
     try:

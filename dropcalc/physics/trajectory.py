@@ -38,7 +38,7 @@ from numpy.typing import ArrayLike, NDArray
 
 from dropcalc.physics.closed_form import vertical_fall
 from dropcalc.physics.constants import STANDARD_GRAVITY
-from dropcalc.physics.wind import PROFILE_KINDS, speed_ratio, speed_ratio_slope
+from dropcalc.physics.wind import PROFILE_KINDS, ProfileKind, speed_ratio, speed_ratio_slope
 
 # Dormand-Prince 5(4) tableau (Dormand and Prince 1980, Table 2).
 _A = (
@@ -90,7 +90,7 @@ class WindField:
     speed_10m: ArrayLike = 0.0
     toward_east: ArrayLike = 1.0
     toward_north: ArrayLike = 0.0
-    profile: str = "uniform"
+    profile: ProfileKind = "uniform"
     exponent: ArrayLike = 0.0
     roughness_length: ArrayLike = 0.05
     minimum_height: ArrayLike = 0.0
@@ -142,7 +142,7 @@ class FallSolution:
 class _Model:
     """What the right-hand side needs besides arrays: the wind profile law and the drag law."""
 
-    profile: str
+    profile: ProfileKind
     linear: bool = False
 
 
@@ -168,7 +168,7 @@ def _accelerations(
 
 
 def _rhs(
-    state: NDArray[np.float64], params: NDArray[np.float64], model: _Model, out: NDArray
+    state: NDArray[np.float64], params: NDArray[np.float64], model: _Model, out: NDArray[np.float64]
 ) -> None:
     """Write d(state)/dt into ``out``; state rows are x, y, z, vx, vy, vz."""
     out[0:3] = state[3:6]
@@ -400,6 +400,10 @@ def _assemble_paths(
 def sample_path(path: ArrayLike, times: ArrayLike) -> NDArray[np.float64]:
     """Positions on a recorded path at the given times, by cubic Hermite interpolation.
 
+    Written out rather than ``scipy.interpolate.CubicHermiteSpline``: the spline's power-basis
+    form ends a step within rounding of, not exactly at, the recorded point, and a drawn path
+    must end exactly where the engine says (tests check it to the bit).
+
     On the step from t_i to t_i+1 = t_i + h, with theta = (t - t_i) / h,
 
         r(t) = (2 theta^3 - 3 theta^2 + 1) r_i + (theta^3 - 2 theta^2 + theta) h v_i
@@ -497,7 +501,9 @@ def _explicit_step(
     return new_state, stages[6], _error_ratio(error, state, new_state, params, tolerance)
 
 
-def _combine(weights: NDArray[np.float64], stages: NDArray[np.float64], out: NDArray) -> None:
+def _combine(
+    weights: NDArray[np.float64], stages: NDArray[np.float64], out: NDArray[np.float64]
+) -> None:
     """Write sum_i weights[i] * stages[i] into ``out``, skipping zero weights.
 
     Plain in-place multiply-adds: faster here than ``tensordot``, which copies its operands.

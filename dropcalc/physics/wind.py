@@ -119,7 +119,9 @@ def speed_ratio(
     if profile == "log":
         z0 = np.asarray(roughness_length, dtype=float)
         return np.log(z / z0) / np.log(reference_height / z0)
-    raise InputError(f"profile must be one of {', '.join(PROFILE_KINDS)}; got {profile!r}")
+    raise InputError(
+        f"profile must be one of {', '.join(PROFILE_KINDS)}; got {profile!r}", field="profile"
+    )
 
 
 def speed_ratio_slope(
@@ -146,7 +148,9 @@ def speed_ratio_slope(
     elif profile == "log":
         slope = 1.0 / (zc * np.log(reference_height / np.asarray(roughness_length, dtype=float)))
     else:
-        raise InputError(f"profile must be one of {', '.join(PROFILE_KINDS)}; got {profile!r}")
+        raise InputError(
+            f"profile must be one of {', '.join(PROFILE_KINDS)}; got {profile!r}", field="profile"
+        )
     return np.where(above, slope, 0.0)
 
 
@@ -362,7 +366,7 @@ def terrain(name: str) -> TerrainClass:
         return TERRAIN_CLASSES[key]
     except KeyError:
         raise UnknownObjectError(
-            f"terrain must be one of {', '.join(terrain_names())}; got {name!r}"
+            f"terrain must be one of {', '.join(terrain_names())}; got {name!r}", field="terrain"
         ) from None
 
 
@@ -380,7 +384,9 @@ def _positive_array(name: str, value: ArrayLike, unit: str) -> NDArray[np.float6
     array = np.asarray(value, dtype=float)
     if not np.all(np.isfinite(array) & (array > 0)):
         bad = array[~(np.isfinite(array) & (array > 0))].ravel()[0]
-        raise InputError(f"{name} must be a finite value > 0 {unit}; got {bad:g} {unit}")
+        raise InputError(
+            f"{name} must be a finite value > 0 {unit}; got {bad:g} {unit}", field=name
+        )
     return array
 
 
@@ -390,13 +396,14 @@ def _en_heights(
     """Validate EN inputs; return (max(z, z_min), z0) as arrays."""
     z = np.asarray(height, dtype=float)
     if not np.all(np.isfinite(z)):
-        raise InputError("height must be finite m; got a NaN or infinite value")
+        raise InputError("height must be finite m; got a NaN or infinite value", field="height")
     z0 = _positive_array("roughness_length", roughness_length, "m")
     z_min = _positive_array("minimum_height", minimum_height, "m")
     if np.any(z_min <= z0):
         raise InputError(
             "minimum_height must be greater than roughness_length; "
-            f"got minimum_height {np.min(z_min):g} m, roughness_length {np.max(z0):g} m"
+            f"got minimum_height {np.min(z_min):g} m, roughness_length {np.max(z0):g} m",
+            field="minimum_height",
         )
     if np.any(z > EN_MAXIMUM_HEIGHT):
         warnings.warn(
@@ -739,7 +746,8 @@ def _validate_speed(speed_10m: float) -> float:
     if math.isfinite(speed) and speed > MAXIMUM_WIND_SPEED:
         raise InputError(
             f"speed_10m must be between 0 and {MAXIMUM_WIND_SPEED:g} m/s; got {speed:g} m/s: "
-            "dropcalc's wind model is not meant for storm conditions"
+            "dropcalc's wind model is not meant for storm conditions",
+            field="speed_10m",
         )
     return require_range("speed_10m", speed, 0.0, MAXIMUM_WIND_SPEED, "m/s")
 
@@ -800,15 +808,22 @@ def wind_spec(
     """
     speed = _validate_speed(speed_10m)
     if kind not in SPEED_KINDS:
-        raise InputError(f"kind must be one of {', '.join(SPEED_KINDS)}; got {kind!r}")
+        raise InputError(
+            f"kind must be one of {', '.join(SPEED_KINDS)}; got {kind!r}", field="kind"
+        )
     direction = to_float("from_direction", from_direction, "deg")
     if not math.isfinite(direction):
-        raise InputError(f"from_direction must be a finite angle in deg; got {direction:g} deg")
+        raise InputError(
+            f"from_direction must be a finite angle in deg; got {direction:g} deg",
+            field="from_direction",
+        )
     direction = direction % 360.0
     if direction >= 360.0:  # a tiny negative angle rounds up to 360.0
         direction = 0.0
     if profile is not None and profile not in PROFILE_KINDS:
-        raise InputError(f"profile must be one of {', '.join(PROFILE_KINDS)}; got {profile!r}")
+        raise InputError(
+            f"profile must be one of {', '.join(PROFILE_KINDS)}; got {profile!r}", field="profile"
+        )
     if exponent is not None:
         exponent = require_range("exponent", exponent, *EXPONENT_RANGE, "")
     if roughness_length is not None:
@@ -835,10 +850,13 @@ def wind_spec(
         else:
             profile = "uniform"
     if exponent is not None and profile != "power":
-        raise InputError(f"exponent applies to the power profile only; got profile {profile!r}")
+        raise InputError(
+            f"exponent applies to the power profile only; got profile {profile!r}", field="exponent"
+        )
     if roughness_length is not None and profile != "log":
         raise InputError(
-            f"roughness_length applies to the log profile only; got profile {profile!r}"
+            f"roughness_length applies to the log profile only; got profile {profile!r}",
+            field="roughness_length",
         )
 
     terrain_name = "" if terrain_class is None else f" (terrain {terrain_class.key} gives none)"
@@ -848,12 +866,17 @@ def wind_spec(
                 terrain_class.gust_exponent if kind == "gust" else terrain_class.mean_exponent
             )
         if exponent is None:
-            raise InputError(f"exponent is required for the power profile{terrain_name}")
+            raise InputError(
+                f"exponent is required for the power profile{terrain_name}", field="exponent"
+            )
     if profile == "log" and roughness_length is None:
         if terrain_class is not None:
             roughness_length = terrain_class.roughness_length
         if roughness_length is None:
-            raise InputError(f"roughness_length is required for the log profile{terrain_name}")
+            raise InputError(
+                f"roughness_length is required for the log profile{terrain_name}",
+                field="roughness_length",
+            )
 
     if minimum_height is None:
         if terrain_class is not None:
@@ -870,7 +893,8 @@ def wind_spec(
     if profile == "log" and roughness_length is not None and minimum_height <= roughness_length:
         raise InputError(
             f"minimum_height must be greater than roughness_length {roughness_length:g} m "
-            f"for the log profile; got {minimum_height:g} m"
+            f"for the log profile; got {minimum_height:g} m",
+            field="minimum_height",
         )
 
     return WindSpec(

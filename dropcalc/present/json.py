@@ -64,7 +64,7 @@ def json_safe(value: Any) -> Any:
             out[NOT_FINITE] = lost
         return out
     if isinstance(value, np.ndarray):
-        return json_safe(value.tolist())
+        return _safe_dict(value.tolist())
     if isinstance(value, (list, tuple)):
         return [json_safe(item) for item in value]
     if isinstance(value, (bool, np.bool_)):
@@ -77,6 +77,12 @@ def json_safe(value: Any) -> Any:
     if isinstance(value, Path):
         return str(value)
     return value
+
+
+def _safe_dict(value: dict[str, Any]) -> dict[str, Any]:
+    """:func:`json_safe` of a JSON object, typed as one."""
+    safe: dict[str, Any] = json_safe(value)
+    return safe
 
 
 def _number(value: Any) -> float | None:
@@ -192,7 +198,7 @@ def fall_json(result: FallResult) -> dict[str, Any]:
     }
     reached, _ = fall_levels(result)
     out["levels_reached"] = [level.key for level in reached]
-    return json_safe(out)
+    return _safe_dict(out)
 
 
 # --------------------------------------------------------------------------------------------
@@ -280,7 +286,7 @@ def zone_json(
         out["barricade_needed_in_still_air_m"] = limits["still_air"]
     if site is not None:
         out.update(site_json(site))
-    return json_safe(out)
+    return _safe_dict(out)
 
 
 def after_landing_json(result: ZoneResult) -> dict[str, Any]:
@@ -365,7 +371,7 @@ def object_json(obj: DropObject) -> dict[str, Any]:
     """All properties of a library object with unit-suffixed keys (``objects --json``)."""
     from dropcalc.physics import contact
 
-    return json_safe(
+    return _safe_dict(
         {
             "id": obj.id,
             "name": obj.name,
@@ -400,7 +406,7 @@ def report_json(job: JobResult, pdf: Path) -> dict[str, Any]:
     """The ``report --json`` / ``demo --json`` summary of a job whose PDF is ``pdf``."""
     scenario = job.scenario
     top = job.highest_energy_row
-    return json_safe(
+    return _safe_dict(
         {
             "pdf": str(pdf),
             "scenario": scenario.path.name,

@@ -86,7 +86,9 @@ def _polygon_path(geometry: Polygon | MultiPolygon) -> Any:
             coordinates = list(ring.coords)
             vertices.extend(coordinates)
             codes.extend(
-                [MplPath.MOVETO] + [MplPath.LINETO] * (len(coordinates) - 2) + [MplPath.CLOSEPOLY]
+                [int(MplPath.MOVETO)]
+                + [int(MplPath.LINETO)] * (len(coordinates) - 2)
+                + [int(MplPath.CLOSEPOLY)]
             )
     return MplPath(vertices, codes)
 
@@ -328,7 +330,9 @@ def plot_plan(
             fontproperties={"size": 8.5},
         )
     )
-    axes.artists[-1].patch.set(facecolor="white", alpha=0.85, edgecolor="none")
+    axes.artists[-1].patch.set(  # type: ignore[attr-defined]  # an AnchoredSizeBar
+        facecolor="white", alpha=0.85, edgecolor="none"
+    )
 
     figure.text(
         0.08,

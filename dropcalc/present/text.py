@@ -4,14 +4,23 @@ from __future__ import annotations
 
 import math
 import textwrap
+from pathlib import Path
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
-from dropcalc.analysis.fall import CARRIED_AWAY_DISTANCE, FallCase, FallResult
+from dropcalc.analysis.fall import FallCase, FallResult
+from dropcalc.model.limits import CARRIED_AWAY_DISTANCE
 from dropcalc.physics.impact import Impact
 from dropcalc.physics.release import describe
 from dropcalc.texts import CAUTION_SHORT, area_text, keep_clear_text
 from dropcalc.units import format_quantity
+
+if TYPE_CHECKING:  # the renderers load no zone, list or library code until asked to
+    from dropcalc.analysis.batch import BatchSettings
+    from dropcalc.analysis.zone import SiteZone, ZoneResult
+    from dropcalc.io.library import DropObject
+    from dropcalc.model.reference_levels import ReferenceLevel
 
 
 def _v(array: np.ndarray | None) -> float:
@@ -196,12 +205,12 @@ def render_fall(result: FallResult, system: str = "si") -> str:
     return "\n".join(lines)
 
 
-def _level_text(level: object, system: str) -> str:
+def _level_text(level: ReferenceLevel, system: str) -> str:
     kind = "energy" if level.quantity == "energy" else "energy_per_area"
     return f"{level.label} ({_fmt(level.value, kind, system)})"
 
 
-def fall_levels(result: FallResult) -> tuple[list, list]:
+def fall_levels(result: FallResult) -> tuple[list[ReferenceLevel], list[ReferenceLevel]]:
     """The default reference levels reached and not reached by a fall's highest impact.
 
     The highest impact energy (and energy per contact area) over the given wind and its gust,
@@ -222,7 +231,8 @@ def fall_levels(result: FallResult) -> tuple[list, list]:
                 per_area.append(value)
     if not energies:
         return [], []
-    reached, below = [], []
+    reached: list[ReferenceLevel] = []
+    below: list[ReferenceLevel] = []
     for key in DEFAULT_LEVEL_KEYS:
         level = reference_level(key)
         if level.quantity == "energy":
@@ -232,7 +242,7 @@ def fall_levels(result: FallResult) -> tuple[list, list]:
     return reached, below
 
 
-def item_name(row: dict) -> str:
+def item_name(row: dict[str, Any]) -> str:
     """An item's name in tables: its label, else its library id or name, else its row number."""
     return str(row.get("label") or row.get("id") or row.get("name") or f"row {row.get('row')}")
 
@@ -256,11 +266,11 @@ def _short_control(text: str) -> str:
 
 
 def render_batch(
-    rows: list[dict],
-    settings: object,
+    rows: list[dict[str, Any]],
+    settings: BatchSettings,
     system: str = "si",
     ignored_columns: list[str] | None = None,
-    out: object | None = None,
+    out: Path | None = None,
     limit: int = 40,
     total_good: int | None = None,
     total_bad: int | None = None,
@@ -331,7 +341,7 @@ def render_batch(
     return "\n".join(lines)
 
 
-def render_objects(objects: list, system: str = "si") -> str:
+def render_objects(objects: list[DropObject], system: str = "si") -> str:
     """A compact table of library objects."""
     header = ("id", "mass", "shape", "Cd·A min–max", "category")
     rows = [
@@ -355,7 +365,7 @@ def render_objects(objects: list, system: str = "si") -> str:
     return "\n".join(lines)
 
 
-def render_object(obj: object, system: str = "si") -> str:
+def render_object(obj: DropObject, system: str = "si") -> str:
     """Every property of one library object with its source."""
     o = obj
     dims = ", ".join(f"{k} {_fmt(v, 'length', system)}" for k, v in o.dimensions.items())
@@ -394,7 +404,7 @@ def render_object(obj: object, system: str = "si") -> str:
     return "\n".join(lines)
 
 
-def barricade_text(limits: dict, system: str = "si") -> str:
+def barricade_text(limits: dict[str, Any], system: str = "si") -> str:
     """What a barricade at a given distance holds, or that it is too close, in words.
 
     ``limits`` holds ``distance`` (the barricade), ``wind`` (highest mean wind at 10 m it
@@ -423,7 +433,7 @@ def barricade_text(limits: dict, system: str = "si") -> str:
     )
 
 
-def after_landing_lines(result: object, system: str = "si") -> list[tuple[str, str]]:
+def after_landing_lines(result: ZoneResult, system: str = "si") -> list[tuple[str, str]]:
     """Rows for the terminal: the driving object's after-landing inputs and their weight."""
     d = result.driver
     material = d.obj.material_class
@@ -466,7 +476,7 @@ def after_landing_lines(result: object, system: str = "si") -> list[tuple[str, s
     return rows
 
 
-def zone_statement(result: object, system: str = "si") -> str:
+def zone_statement(result: ZoneResult, system: str = "si") -> str:
     """The zone in words: what the radius means and which object drives it."""
     r = result
     d = r.driver
@@ -511,10 +521,10 @@ NO_TERRAIN_WARNING = (
 
 
 def render_zone(
-    result: object,
+    result: ZoneResult,
     system: str = "si",
-    limits: dict | None = None,
-    site_result: object | None = None,
+    limits: dict[str, Any] | None = None,
+    site_result: SiteZone | None = None,
 ) -> str:
     """Readable zone summary with its parts, per-object lines and the cautions."""
     r = result
@@ -577,12 +587,12 @@ def render_zone(
             f"  Site: exclusion area {area_text(area.area_m2, system)}, reaching "
             f"{keep_clear_text(area.max_distance_m, system)} from the nearest work edge; widest "
             f"zone at {site_result.driver[0]}.", 90, subsequent_indent="  "))  # fmt: skip
-        for name, index, z in site_result.segments:
+        for name, index, segment in site_result.segments:
             lines.append(
-                f"    {name} (segment {index + 1}, {_fmt(z.settings.height, 'length', system)}, "
-                f"facing "
-                f"{z.settings.edge_azimuth:.0f}°): {keep_clear_text(z.radius, system)}"
-                f" / worst case {keep_clear_text(z.worst_case, system)}"
+                f"    {name} (segment {index + 1}, "
+                f"{_fmt(segment.settings.height, 'length', system)}, facing "
+                f"{segment.settings.edge_azimuth:.0f}°): {keep_clear_text(segment.radius, system)}"
+                f" / worst case {keep_clear_text(segment.worst_case, system)}"
             )
     if len(r.objects) > 1:
         lines.append("")

@@ -261,7 +261,7 @@ def _wind_text(job: JobResult) -> str:
     )
 
 
-def _plate_cases(obj: Any, inputs: Any, height: float, density: float, gravity: float) -> list:
+def _plate_cases(obj: Any, inputs: Any, height: float, density: float, gravity: float) -> list[Any]:
     """Side-view paths of a sheet at its highest-energy and longest-drift attitudes."""
     from dropcalc.analysis.fall import wind_field
     from dropcalc.analysis.plate_flight import bounding_attitudes
@@ -354,7 +354,7 @@ def draw_figures(job: JobResult, folder: Path, image_format: str = "png") -> dic
             drag_parameter=float(drag_parameter(density, obj.drag_area_min, obj.mass)),
             gravity=scenario.gravity,
             wind=None,
-            initial_velocity=np.zeros(3),
+            initial_velocity=(0.0, 0.0, 0.0),
         )
         for obj in inputs.objects
     ]

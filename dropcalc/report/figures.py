@@ -373,7 +373,9 @@ def _case_paths(cases: Sequence[SideViewCase], max_distance: float) -> list[NDAr
     return [track for track in tracks if track is not None]
 
 
-def _plate_track(case: SideViewCase, max_distance: float, samples: int = 200) -> NDArray:
+def _plate_track(
+    case: SideViewCase, max_distance: float, samples: int = 200
+) -> NDArray[np.float64]:
     """Path (rows time, east, north, height) of a sheet flown by the plate model."""
     from dropcalc.physics.plate import PlateGeometry, solve_plate_falls
 
@@ -485,7 +487,7 @@ def side_view(
     if not cases:
         raise InputError("side view needs at least one fall to draw; got none")
     if not (math.isfinite(height) and height > 0):
-        raise InputError(f"height must be a finite length > 0 m; got {height:g} m")
+        raise InputError(f"height must be a finite length > 0 m; got {height:g} m", field="height")
 
     from matplotlib.backends.backend_agg import FigureCanvasAgg
     from matplotlib.figure import Figure
@@ -974,7 +976,7 @@ def fall_figure(path: Path, result: FallResult) -> None:
     InputError
         If the suffix is not .png or .svg or the folder cannot be written.
     """
-    from dropcalc.analysis.fall import CARRIED_AWAY_DISTANCE
+    from dropcalc.model.limits import CARRIED_AWAY_DISTANCE
 
     case = result.case
     label = case.object_name or case.object_id or f"object, {case.mass:g} kg"

@@ -962,7 +962,7 @@ def _signoff(data: ReportData, styles: dict[str, ParagraphStyle]) -> list[Flowab
     ]
 
 
-class _EndOfAnswer(CondPageBreak):
+class _EndOfAnswer(CondPageBreak):  # type: ignore[misc]  # reportlab is untyped
     """Start the detail on a new page if the answer fits page 1; else carry straight on.
 
     With several work areas page 1 overflows; the detail then follows the end of the answer
@@ -1059,7 +1059,7 @@ def _numbered_canvas(pages: list[int]) -> type[pdfcanvas.Canvas]:
     The page total goes into ``pages`` so :func:`write_report` can return it.
     """
 
-    class NumberedCanvas(pdfcanvas.Canvas):
+    class NumberedCanvas(pdfcanvas.Canvas):  # type: ignore[misc]  # reportlab is untyped
         def __init__(self, *args: Any, **kwargs: Any) -> None:
             super().__init__(*args, **kwargs)
             self._held_pages: list[dict[str, Any]] = []

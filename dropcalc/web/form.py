@@ -73,16 +73,20 @@ def _text(value: Any, field: str) -> str:
         return str(value)
     if isinstance(value, float):
         if not math.isfinite(value):
-            raise InputError(f"{field}: expected a finite number or text; got {value!r}")
+            raise InputError(
+                f"{field}: expected a finite number or text; got {value!r}", field=field
+            )
         return repr(value)
     if isinstance(value, _dt.date | _dt.datetime | _dt.time):
         return value.isoformat()
     if not isinstance(value, str):
-        raise InputError(f"{field}: expected text; got {type(value).__name__}")
+        raise InputError(f"{field}: expected text; got {type(value).__name__}", field=field)
     if len(value) > MAX_TEXT:
-        raise InputError(f"{field}: at most {MAX_TEXT} characters; got {len(value)}")
+        raise InputError(f"{field}: at most {MAX_TEXT} characters; got {len(value)}", field=field)
     if re.search(r"[\ud800-\udfff]", value):
-        raise InputError(f"{field}: text holds an unpaired surrogate (not a character)")
+        raise InputError(
+            f"{field}: text holds an unpaired surrogate (not a character)", field=field
+        )
     return value.strip()
 
 
@@ -90,7 +94,9 @@ def _table(value: Any, field: str, allowed: Sequence[str]) -> dict[str, Any]:
     if value is None:
         return {}
     if not isinstance(value, Mapping):
-        raise InputError(f"{field}: expected a group of fields; got {type(value).__name__}")
+        raise InputError(
+            f"{field}: expected a group of fields; got {type(value).__name__}", field=field
+        )
     unknown = sorted(str(k) for k in value if k not in allowed)
     if unknown:
         raise InputError(
@@ -103,9 +109,9 @@ def _list(value: Any, field: str, limit: int) -> list[Any]:
     if value is None:
         return []
     if not isinstance(value, list):
-        raise InputError(f"{field}: expected a list; got {type(value).__name__}")
+        raise InputError(f"{field}: expected a list; got {type(value).__name__}", field=field)
     if len(value) > limit:
-        raise InputError(f"{field}: at most {limit} entries; got {len(value)}")
+        raise InputError(f"{field}: at most {limit} entries; got {len(value)}", field=field)
     return value
 
 
@@ -121,7 +127,7 @@ def parse_points(value: Any, field: str) -> list[list[float]]:
         return []
     if isinstance(value, str):
         if len(value) > MAX_TEXT * 10:
-            raise InputError(f"{field}: too long ({len(value)} characters)")
+            raise InputError(f"{field}: too long ({len(value)} characters)", field=field)
         pairs = [p for p in re.split(r"[;\n]+", value) if p.strip()]
         out: list[list[float]] = []
         for pair in pairs:
@@ -131,7 +137,8 @@ def parse_points(value: Any, field: str) -> list[list[float]]:
             except ValueError:
                 raise InputError(
                     f"{field}: expected x, y pairs in metres separated by ';' "
-                    f"(e.g. 0, 16; 42, 16); got {shorten(repr(pair.strip()), 40)}"
+                    f"(e.g. 0, 16; 42, 16); got {shorten(repr(pair.strip()), 40)}",
+                    field=field,
                 ) from None
             out.append([x, y])
         value = out
@@ -378,27 +385,30 @@ def toml_to_form(
     try:
         data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
-        raise InputError(f"{name}: not valid TOML: {exc}") from None
+        raise InputError(f"{name}: not valid TOML: {exc}", field=name) from None
     raw: dict[str, Any] = {}
     for part in ("job", "site", "wind", "policy"):
         value = data.get(part, {})
         if not isinstance(value, dict):
-            raise InputError(f"{name}: {part}: expected a table, e.g. [{part}]")
+            raise InputError(f"{name}: {part}: expected a table, e.g. [{part}]", field=name)
         raw[part] = dict(value)
     if "rules_file" in raw["policy"]:
         raise InputError(
             f"{name}: policy.rules_file: the page reads no other file; run this scenario with "
-            "`dropcalc report`, or remove rules_file to use the built-in control rules"
+            "`dropcalc report`, or remove rules_file to use the built-in control rules",
+            field=name,
         )
     unknown = sorted(set(data) - {"job", "site", "wind", "policy", "work_area", "object",
                                   "objects_file"})  # fmt: skip
     if unknown:
-        raise InputError(f"{name}: {shorten(unknown[0], 40)}: unknown key")
+        raise InputError(f"{name}: {shorten(unknown[0], 40)}: unknown key", field=name)
     site = raw["site"]
     origin = site.pop("origin", None)
     if origin is not None:
         if not isinstance(origin, dict):
-            raise InputError(f"{name}: site.origin: expected {{ lat = ..., lon = ... }}")
+            raise InputError(
+                f"{name}: site.origin: expected {{ lat = ..., lon = ... }}", field=name
+            )
         site["origin_lat"] = origin.get("lat")
         site["origin_lon"] = origin.get("lon")
     outline = site.pop("outline", None)
@@ -411,20 +421,22 @@ def toml_to_form(
     }
     areas = data.get("work_area", [])
     if not isinstance(areas, list):
-        raise InputError(f"{name}: work_area: expected [[work_area]] tables")
+        raise InputError(f"{name}: work_area: expected [[work_area]] tables", field=name)
     form["work_areas"] = []
     for a, area in enumerate(areas, start=1):
         if not isinstance(area, dict):
-            raise InputError(f"{name}: work_area[{a}]: expected a table")
+            raise InputError(f"{name}: work_area[{a}]: expected a table", field=name)
         area = dict(area)
         edges = area.pop("edge", [])
         if not isinstance(edges, list) or not all(isinstance(e, dict) for e in edges):
-            raise InputError(f"{name}: work_area[{a}].edge: expected [[work_area.edge]] tables")
+            raise InputError(
+                f"{name}: work_area[{a}].edge: expected [[work_area.edge]] tables", field=name
+            )
         area["edges"] = [dict(e) for e in edges]
         form["work_areas"].append(area)
     listed = data.get("object", [])
     if not isinstance(listed, list) or not all(isinstance(o, dict) for o in listed):
-        raise InputError(f"{name}: object: expected [[object]] tables")
+        raise InputError(f"{name}: object: expected [[object]] tables", field=name)
     form["objects"] = [dict(o) for o in listed] + [
         {k: v for k, v in row.items() if k in OBJECT_FIELDS and v not in ("", None)}
         for row in objects
@@ -432,7 +444,7 @@ def toml_to_form(
     try:
         return check_form(form)
     except InputError as exc:
-        raise InputError(f"{name}: {_key_of_field(str(exc))}") from None
+        raise InputError(f"{name}: {_key_of_field(str(exc))}", field=name) from None
 
 
 def _key_of_field(message: str) -> str:

@@ -549,7 +549,8 @@ def figures(form_data: Any, cache: JobCache | None = None) -> dict[str, str]:
     entry, _cached = run_form(form_data, cache)
     if "figures" not in entry:
         entry["figures"] = figures_json(entry["job"])
-    return entry["figures"]
+    drawn: dict[str, str] = entry["figures"]
+    return drawn
 
 
 def _finite(value: Any) -> float | None:
