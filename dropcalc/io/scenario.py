@@ -545,8 +545,7 @@ def load_scenario(path: Path, *, allow_file_references: bool = True) -> Scenario
         parsed, errors = parse_items(frame, library, settings)
         if errors:
             first = errors[0]
-            column = first.message.split(":", 1)[0].split(" ", 1)[0]
-            column = "id" if first.message.startswith("unknown object") else column
+            column = first.field or ""
             cell = f"the {column} cell" if column in KNOWN_COLUMNS else "a cell"
             raise where.error(
                 "objects_file",
