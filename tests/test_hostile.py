@@ -514,7 +514,7 @@ def test_zone_refuses_a_height_below_a_hands_drop_like_fall() -> None:
     one_error_line(
         invoke("zone", "--height", "1e-320", "--object", "claw-hammer-16oz"),
         "--height",
-        "from 0.01 to 5000 m",
+        "between 0.01 and 5000 m",
     )
 
 
