@@ -64,7 +64,7 @@ def json_safe(value: Any) -> Any:
             out[NOT_FINITE] = lost
         return out
     if isinstance(value, np.ndarray):
-        return _safe_dict(value.tolist())
+        return json_safe(value.tolist())
     if isinstance(value, (list, tuple)):
         return [json_safe(item) for item in value]
     if isinstance(value, (bool, np.bool_)):
