@@ -1069,7 +1069,7 @@ def serve(
 def _ground_slope(text: str, field: str) -> float:
     """The ground slope in degrees, in its allowed range (raises InputError naming ``field``)."""
     from dropcalc.errors import require_range
-    from dropcalc.model.limits import SLOPE_RANGE
+    from dropcalc.physics.scatter import SLOPE_RANGE
 
     return require_range(field, _quantity(text, "angle", field), *SLOPE_RANGE, "deg")
 

@@ -40,13 +40,12 @@ from dropcalc.model.limits import (
     MARGIN_RANGE,
     RELATIVE_ERROR_RANGE,
     RELEASE_HEIGHT_RANGE,
-    SLOPE_RANGE,
     TURBULENCE_RANGE,
     UNCERTAINTY_RANGES,
 )
 from dropcalc.physics import contact
 from dropcalc.physics.release import initial_velocity
-from dropcalc.physics.scatter import Surface, surface
+from dropcalc.physics.scatter import SLOPE_RANGE, Surface, surface
 from dropcalc.physics.trajectory import FallSolution, solve_falls
 from dropcalc.physics.wind import turbulence_intensity
 

@@ -216,7 +216,6 @@ def load_scenario(path: Path, *, allow_file_references: bool = True) -> Scenario
         MAX_CLEAR_DISTANCE,
         RELATIVE_ERROR_RANGE,
         RELEASE_HEIGHT_RANGE,
-        SLOPE_RANGE,
     )
     from dropcalc.model.policy import DEFAULT_RULES, load_policy
     from dropcalc.model.reference_levels import DEFAULT_LEVEL_KEYS, reference_level
@@ -224,7 +223,7 @@ def load_scenario(path: Path, *, allow_file_references: bool = True) -> Scenario
     from dropcalc.physics.atmosphere import air_state
     from dropcalc.physics.gravity import gravity as local_gravity
     from dropcalc.physics.release import DEFAULT_ROOF_FRICTION, Release
-    from dropcalc.physics.scatter import surface
+    from dropcalc.physics.scatter import SLOPE_RANGE, surface
     from dropcalc.physics.wind import wind_at_site, wind_spec
     from dropcalc.units import parse_direction, parse_quantity
 

@@ -17,11 +17,14 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
 from dropcalc.errors import InputError, require_range, to_float
-from dropcalc.model.limits import DEFAULT_GRAVITY, GRAVITY_RANGE
+from dropcalc.model.limits import GRAVITY_RANGE
 from dropcalc.physics.atmosphere import AirState, air_state
+from dropcalc.physics.constants import STANDARD_GRAVITY
 from dropcalc.physics.release import Release
 from dropcalc.physics.wind import WindSpec, wind_spec
 
+#: Acceleration of gravity when none is given [m/s^2]: standard gravity (CGPM 1901).
+DEFAULT_GRAVITY = STANDARD_GRAVITY
 #: Compass direction a work edge faces when none is given [deg]: east (any direction would do
 #: for a lone edge; the wind's default, from the west, then blows straight out from it).
 DEFAULT_EDGE_AZIMUTH = 90.0

@@ -5,74 +5,14 @@ files) with the one range check, :func:`dropcalc.errors.require_range`; the phys
 below trust what they are given. Each limit says its unit and why it is where it is.
 Documented for users in ``docs/limits.md``.
 
-The ranges of the air, the wind, gravity and the release are checked by their builders in
-:mod:`dropcalc.physics` (``air_state``, ``wind_spec``, ``gravity``, ``Release``), which import
-nothing above them: they are defined there, once, and gathered here so that this module is the
-one table of every allowed range.
+This module imports nothing of dropcalc (the foundation modules may read it). The ranges of
+the air, the wind, the release and the ground slope are checked by their builders in
+:mod:`dropcalc.physics` (``air_state``, ``wind_spec``, ``gravity``, ``Release``), which may
+import nothing above them, so they are defined there, beside the check (``SITE_ELEVATION_RANGE``,
+``TEMPERATURE_RANGE``, ``MAXIMUM_WIND_SPEED``, ``SLOPE_RANGE`` ...).
 """
 
 from __future__ import annotations
-
-from dropcalc.physics.atmosphere import (
-    DENSITY_RANGE,
-    PRESSURE_RANGE,
-    RELATIVE_HUMIDITY_RANGE,
-    SITE_ELEVATION_RANGE,
-    TEMPERATURE_RANGE,
-)
-from dropcalc.physics.checks import GRAVITY_RANGE
-from dropcalc.physics.constants import STANDARD_GRAVITY
-from dropcalc.physics.gravity import LATITUDE_RANGE
-from dropcalc.physics.release import (
-    FRICTION_RANGE,
-    MAXIMUM_CARRIER_SPEED,
-    MAXIMUM_RELEASE_SPEED,
-    MAXIMUM_ROOF_LENGTH,
-    RELEASE_ANGLE_RANGE,
-    ROOF_PITCH_RANGE,
-)
-from dropcalc.physics.scatter import SLOPE_RANGE
-from dropcalc.physics.wind import (
-    EXPONENT_RANGE,
-    MAXIMUM_WIND_SPEED,
-    MINIMUM_HEIGHT_RANGE,
-    ROUGHNESS_LENGTH_RANGE,
-)
-
-__all__ = [
-    "CARRIED_AWAY_DISTANCE",
-    "CONFIDENCE_RANGE",
-    "CONTACT_AREA_RANGE",
-    "DEFAULT_GRAVITY",
-    "DENSITY_RANGE",
-    "DRAG_AREA_RANGE",
-    "EXPONENT_RANGE",
-    "FRICTION_RANGE",
-    "GRAVITY_RANGE",
-    "LATITUDE_RANGE",
-    "MARGIN_RANGE",
-    "MASS_RANGE",
-    "MAX_CLEAR_DISTANCE",
-    "MAXIMUM_CARRIER_SPEED",
-    "MAXIMUM_RELEASE_SPEED",
-    "MAXIMUM_ROOF_LENGTH",
-    "MAXIMUM_WIND_SPEED",
-    "MAX_RELEASE_HEIGHT",
-    "MINIMUM_HEIGHT_RANGE",
-    "MIN_RELEASE_HEIGHT",
-    "PRESSURE_RANGE",
-    "RELATIVE_ERROR_RANGE",
-    "RELATIVE_HUMIDITY_RANGE",
-    "RELEASE_ANGLE_RANGE",
-    "RELEASE_HEIGHT_RANGE",
-    "ROOF_PITCH_RANGE",
-    "ROUGHNESS_LENGTH_RANGE",
-    "SLOPE_RANGE",
-    "SITE_ELEVATION_RANGE",
-    "TEMPERATURE_RANGE",
-    "TURBULENCE_RANGE",
-    "UNCERTAINTY_RANGES",
-]
 
 # --- the falling object and its release ------------------------------------------------------
 
@@ -94,8 +34,11 @@ CONTACT_AREA_RANGE = (1e-8, 10.0)
 #: a site's drop zone is measured in metres to tens of metres; an object that the wind takes
 #: beyond a kilometre is windborne debris, not a drop the zone can bound.
 CARRIED_AWAY_DISTANCE = 1000.0
-#: Acceleration of gravity when none is given [m/s^2]: standard gravity (CGPM 1901).
-DEFAULT_GRAVITY = STANDARD_GRAVITY
+#: Acceleration of gravity accepted [m/s^2]: anywhere on or near the Earth's surface (normal
+#: gravity 9.780 at the equator to 9.832 at the poles, WGS84; less at altitude). The physics
+#: entries that take a gravity check the same range (``physics.checks.GRAVITY_RANGE``, which
+#: may not import this table).
+GRAVITY_RANGE = (9.7, 9.9)
 
 # --- the zone: confidence, margin and sampling precision ------------------------------------
 
