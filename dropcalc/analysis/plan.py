@@ -41,6 +41,7 @@ from dropcalc.errors import (
     require_range,
 )
 from dropcalc.model.limits import (
+    EDGE_RESOLUTION,
     MAX_EDGES,
     MAX_TEXT_FILE_BYTES,
 )
@@ -283,6 +284,12 @@ def beyond_building(site: Site, polygon: Polygon | MultiPolygon) -> Polygon | Mu
     outline = site.outline_polygon
     if outline is None or polygon.is_empty:
         return None
+    # Shadows are cast by the outline merged to the edge resolution: a circle drawn with 10,000
+    # points otherwise makes 10,000 quadrilaterals per release point (36 s for one ring).
+    # The hatched ground moves by at most EDGE_RESOLUTION at the outline.
+    merged = outline.simplify(EDGE_RESOLUTION, preserve_topology=True)
+    if isinstance(merged, Polygon) and not merged.is_empty:
+        outline = merged
     x0, y0, x1, y1 = shapely.unary_union([polygon, outline]).bounds
     reach = 4.0 * math.hypot(x1 - x0, y1 - y0) + 1.0
     total = sum(edge.line.length for edge in site.edges)
