@@ -29,8 +29,6 @@ from urllib.parse import urlencode
 
 import pytest
 
-pytestmark = pytest.mark.slow
-
 CHROMIUM = shutil.which("chromium") or "/usr/bin/chromium"
 CHROMEDRIVER = shutil.which("chromedriver") or "/usr/bin/chromedriver"
 NO_CHROMIUM = not (Path(CHROMIUM).exists() and Path(CHROMEDRIVER).exists())
