@@ -12,6 +12,7 @@ from dropcalc.physics.wind import (
     TERRAIN_ALIASES,
     TERRAIN_CLASSES,
     WindSpec,
+    peak_speed_ratio,
     peak_velocity_factor,
     roughness_factor,
     speed_ratio,
@@ -397,3 +398,30 @@ def test_wind_spec_is_frozen() -> None:
     assert isinstance(spec, WindSpec)
     with pytest.raises(AttributeError):
         spec.speed_10m = 20.0  # type: ignore[misc]
+
+
+def test_gust_follows_en_peak_profile_not_mean_law() -> None:
+    # EN 1991-1-4:2005 §4.5 eq. (4.8): v_p(z) = v_m(z) sqrt(1 + 7 I_v(z)); §4.4 eq. (4.7):
+    # I_v(z) = k_I / (c_0 ln(z/z0)), k_I = c_0 = 1; v_m(z) ∝ ln(z/z0) (eq. 4.3-4.4), z held at
+    # z_min below it. Table 4.1 category III: z0 = 0.3 m, z_min = 5 m.
+    z0, z_min = 0.3, 5.0
+
+    def v_p(z: float) -> float:
+        log = math.log(max(z, z_min) / z0)
+        return log * math.sqrt(1.0 + 7.0 / log)
+
+    def v_m(z: float) -> float:
+        return math.log(max(z, z_min) / z0)
+
+    gust = wind_spec(20.0, kind="gust", terrain="en-iii")
+    mean = wind_spec(20.0, kind="mean", terrain="en-iii")
+    for height in (40.0, 3.0):
+        expected = v_p(height) / v_p(10.0)
+        assert float(peak_speed_ratio(height, z0, z_min)) == pytest.approx(expected, rel=1e-12)
+        assert float(gust.speed_at(height)) / 20.0 == pytest.approx(expected, rel=1e-12)
+        # The mean law is what a mean wind keeps, and it differs from the gust's by 8-11 %.
+        assert float(mean.speed_at(height)) / 20.0 == pytest.approx(v_m(height) / v_m(10.0))
+        assert abs(v_m(height) / v_m(10.0) / expected - 1.0) > 0.07
+    # Worked by hand: v_p(40)/v_p(10) = 4.893 * 1.5590 / (3.507 * 1.7310) = 1.2567.
+    assert float(gust.speed_at(40.0)) / 20.0 == pytest.approx(1.2567, abs=5e-4)
+    assert float(gust.speed_at(10.0)) == pytest.approx(20.0, rel=1e-12)
