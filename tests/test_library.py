@@ -521,3 +521,52 @@ def test_docs_list_every_hazard_word_and_csv_column():
     for word in HAZARDS:
         assert f"| `{word}` |" in DOC, word
     assert ",".join(library.CSV_COLUMNS) in DOC
+
+
+# --- outline fill of irregular tools -------------------------------------------------------------
+def test_claw_hammer_largest_drag_area_is_its_handle_and_head_outline():
+    # Source: the object's stated dimensions (0.33 x 0.13 x 0.03 m), geometry: the flat outline
+    # is a handle 0.03 m wide x 0.33 m plus a head 0.13 x 0.03 m, less their 0.03 x 0.03 m
+    # overlap; Cd 1.05 is a flat face normal to the flow (White, Fluid Mechanics, table 7.3,
+    # from memory, cube_face). The model scales the box's largest projection, 3 % above its
+    # face, hence 5 %.
+    outline = 0.03 * 0.33 + 0.13 * 0.03 - 0.03 * 0.03
+    hammer = load_library().get("claw-hammer-16oz")
+    assert hammer.drag_area_max == pytest.approx(1.05 * outline, rel=0.05)
+    assert hammer.drag_area_min <= hammer.drag_area_max
+
+
+def test_no_irregular_object_exceeds_its_bounding_box_face():
+    # Geometry: a body's outline lies inside its bounding box's projection, at most
+    # sqrt((ab)^2 + (bc)^2 + (ca)^2) <= sqrt(3) x the largest face (face diagonal bound);
+    # with Cd 1.05 (cube_face) the largest drag area cannot exceed 1.05 x that.
+    for item in load_library():
+        if item.shape != "irregular":
+            continue
+        a, b, c = sorted(item.dimensions.values())
+        largest_face = b * c
+        projection = math.sqrt((a * b) ** 2 + (b * c) ** 2 + (c * a) ** 2)
+        assert item.drag_area_max <= 1.05 * projection * (1 + 1e-12), item.id
+        if item.outline_fill is not None:
+            assert item.drag_area_max < 1.05 * largest_face, item.id
+        assert item.drag_area_min <= item.drag_area_max, item.id
+
+
+def test_m20_bolt_broadside_counts_head_and_nut():
+    # Source: ISO 4014 / ISO 4032 M20 proportions as stated in the object's size_source (head
+    # 12.5 mm, nut 18 mm high, 30 mm across flats, 34.6 mm across corners), geometry.
+    outline = 0.08 * 0.02 + 0.0346 * 0.0125 + (0.0346 - 0.02) * 0.018
+    bolt = load_library().get("bolt-m20x80-with-nut")
+    side_cd = float(shapes.cylinder_side_on_drag_coefficient(0.08 / 0.02))
+    assert bolt.drag_area_max == pytest.approx(side_cd * outline, rel=0.01)
+    assert bolt.drag_area_min <= bolt.drag_area_typical <= bolt.drag_area_max
+
+
+def test_outline_fill_is_checked():
+    with pytest.raises(InputError, match="outline_fill"):
+        shapes.drag_bounds("irregular", outline_fill=1.5, length=0.3, width=0.1, height=0.03)
+    with pytest.raises(InputError, match="outline_fill"):
+        shapes.drag_bounds("box", outline_fill=0.5, length=0.3, width=0.1, height=0.03)
+    full = shapes.drag_bounds("irregular", length=0.3, width=0.1, height=0.03)
+    half = shapes.drag_bounds("irregular", outline_fill=0.5, length=0.3, width=0.1, height=0.03)
+    assert float(half.drag_area_max) == pytest.approx(0.5 * float(full.drag_area_max))

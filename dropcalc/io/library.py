@@ -89,6 +89,7 @@ _OPTIONAL_KEYS = (
     "unit_mass_kg",
     "tare_mass_kg",
     "material",
+    "outline_fill",
 )
 _ALL_KEYS = _REQUIRED_KEYS + _OPTIONAL_KEYS
 
@@ -110,6 +111,7 @@ CSV_COLUMNS: tuple[str, ...] = (
     "drag_area_m2",
     "drag_area_min_m2",
     "drag_area_max_m2",
+    "outline_fill",
     "hazards",
     "fragile",
     "notes",
@@ -182,6 +184,10 @@ class DropObject:
         Drag area C_d·A stated directly for the object; replaces the shape's estimate. [m²]
     drag_area_min_given, drag_area_max_given : float or None
         Bounds of a stated drag area. [m²]
+    outline_fill : float or None
+        Irregular shapes only: the share of the bounding rectangle that the largest projected
+        outline covers, 0 < f <= 1; scales the largest drag area (None: the shape class's
+        default, ``shapes.drag_bounds``). [-]
     source : str
         Mass and size sources in one string, for display (computed).
     drag_area_min, drag_area_max, drag_area_typical : float
@@ -213,6 +219,7 @@ class DropObject:
     drag_area_given: float | None = None
     drag_area_min_given: float | None = None
     drag_area_max_given: float | None = None
+    outline_fill: float | None = None
     source: str = field(init=False)
     drag_area_min: float = field(init=False)
     drag_area_max: float = field(init=False)
@@ -233,7 +240,9 @@ class DropObject:
             contact.material(self.material)  # an unknown class lists the known ones
         if self.contact_area is not None:
             _positive(self.contact_area, "contact_area_m2", "area", f"{self.contact_area:g}")
-        bounds = shapes.drag_bounds(shape, drag_crisis=False, **dimensions)
+        bounds = shapes.drag_bounds(
+            shape, drag_crisis=False, outline_fill=self.outline_fill, **dimensions
+        )
         minimum, maximum, typical, basis = _drag_areas(
             bounds, self.drag_area_given, self.drag_area_min_given, self.drag_area_max_given
         )
@@ -628,7 +637,13 @@ def _record_from_cells(cells: dict[str, str], prefix: str) -> dict[str, Any]:
     record: dict[str, Any] = {
         key: cells[key] for key in ("id", "name", "category", "mass_kg", "shape") if key in cells
     }
-    for key in ("contact_area_m2", "drag_area_m2", "drag_area_min_m2", "drag_area_max_m2"):
+    for key in (
+        "contact_area_m2",
+        "drag_area_m2",
+        "drag_area_min_m2",
+        "drag_area_max_m2",
+        "outline_fill",
+    ):
         if cells.get(key):
             record[key] = cells[key]
     for key in ("notes", "source"):
@@ -696,6 +711,7 @@ def csv_rows(objects: Iterable[DropObject]) -> list[dict[str, Any]]:
             drag_area_max_m2=item.drag_area_max_given
             if item.drag_area_max_given is not None
             else "",
+            outline_fill=item.outline_fill if item.outline_fill is not None else "",
             hazards="; ".join(item.hazards),
             fragile="true" if item.fragile else "false",
             notes=item.notes,
@@ -785,6 +801,7 @@ def _object_from_record(
             f"got {material!r}"
         )
     source = text("source")
+    outline_fill = _outline_fill(record.get("outline_fill"), locate("outline_fill"))
     try:
         return DropObject(
             id=object_id,
@@ -806,10 +823,28 @@ def _object_from_record(
             drag_area_given=optional("drag_area_m2", "area"),
             drag_area_min_given=optional("drag_area_min_m2", "area"),
             drag_area_max_given=optional("drag_area_max_m2", "area"),
+            outline_fill=outline_fill,
         )
     except InputError as error:
         key = "drag_area_m2" if str(error).startswith("drag_area") else "dimensions_m"
+        key = "outline_fill" if str(error).startswith("outline_fill") else key
         raise InputError(f"{locate(key)}{error}") from None
+
+
+def _outline_fill(value: Any, prefix: str) -> float | None:
+    """Read ``outline_fill``: absent, or a number > 0 and <= 1."""
+    if value is None:
+        return None
+    message = f"{prefix}outline_fill must be a number > 0 and <= 1; got {value!r}"
+    if isinstance(value, bool) or not isinstance(value, int | float | str):
+        raise InputError(message, field="outline_fill")
+    try:
+        number = float(value)
+    except ValueError:
+        raise InputError(message, field="outline_fill") from None
+    if not 0.0 < number <= 1.0:  # NaN compares False
+        raise InputError(message, field="outline_fill")
+    return number
 
 
 def _quantity(value: Any, key: str, kind: str, prefix: str) -> float:

@@ -104,6 +104,12 @@ TUMBLING_DRAG_FACTOR = 1.05
 #: drill, a radio) presents [-]. Common practice, no source.
 IRREGULAR_COMPACTNESS_FACTOR = 0.8
 
+#: Default outline fill of an ``irregular`` body: the share of its bounding rectangle that its
+#: largest projected outline covers [-]. 1.0 takes the whole rectangle, an upper bound on any
+#: outline (geometry, no further source), used where an object's outline is not known; objects
+#: whose outline is known state ``outline_fill`` in the library (e.g. a hammer, about 0.3).
+IRREGULAR_OUTLINE_FILL = 1.0
+
 #: Thickness over the next-larger dimension below which a flat body (sheet, board, disc) is
 #: flagged as able to glide and autorotate [-]. Common practice, no source; the flying behaviour
 #: of sheets is from Holmes, Letchford & Lin, J. Wind Eng. Ind. Aerodyn. 94 (2006) 21-39.

@@ -42,6 +42,7 @@ from dropcalc.errors import InputError, UnknownObjectError, shorten
 from dropcalc.physics.constants import (
     GLIDE_THICKNESS_RATIO,
     IRREGULAR_COMPACTNESS_FACTOR,
+    IRREGULAR_OUTLINE_FILL,
     TUMBLING_DRAG_FACTOR,
 )
 
@@ -621,7 +622,13 @@ def cylinder_end_on_drag_coefficient(length_to_diameter: ArrayLike) -> FloatArra
 # --- drag bounds ------------------------------------------------------------------------------
 
 
-def drag_bounds(shape: str, *, drag_crisis: bool = False, **dimensions: ArrayLike) -> DragBounds:
+def drag_bounds(
+    shape: str,
+    *,
+    drag_crisis: bool = False,
+    outline_fill: ArrayLike | None = None,
+    **dimensions: ArrayLike,
+) -> DragBounds:
     """Smallest, largest and tumbling drag area C_d A of a shape over its orientations.
 
     Rules, per shape (C_d rows named by their :data:`CD_TABLE` key):
@@ -644,8 +651,11 @@ def drag_bounds(shape: str, *, drag_crisis: bool = False, **dimensions: ArrayLik
     - plate: as a box, except that the largest is at least the face-on value
       C_d(aspect) L W from :func:`plate_normal_drag_coefficient` (1.18-1.50).
     - irregular: as a box on the bounding box, with the minimum multiplied by the compactness
-      factor 0.8 (``IRREGULAR_COMPACTNESS_FACTOR``, common practice, no source); the maximum
-      stays the bounding box's, an upper bound.
+      factor 0.8 (``IRREGULAR_COMPACTNESS_FACTOR``, common practice, no source), and the
+      maximum multiplied by the outline fill f, the share of the bounding rectangle that the
+      body's largest projected outline covers (a hammer's handle and head, about 0.3 of its
+      box). f defaults to 1.0 (``IRREGULAR_OUTLINE_FILL``, the whole rectangle, an upper bound);
+      the minimum is held at or below the maximum.
 
     Tumbling (``drag_area_typical``): 1.05 x the mean projected area (S/4, Cauchy [3]; for an
     irregular body 0.8 x the bounding box's S/4), the middle of the (1.0-1.1) S/4 of
@@ -663,6 +673,9 @@ def drag_bounds(shape: str, *, drag_crisis: bool = False, **dimensions: ArrayLik
         Shape class or alias.
     drag_crisis : bool
         Spheres only: let the minimum drag area use the post-crisis C_d of a smooth sphere.
+    outline_fill : float or 1-D array or None
+        Irregular bodies only: the outline fill f, 0 < f <= 1, that multiplies the largest
+        drag area; None uses ``IRREGULAR_OUTLINE_FILL``. [-]
     **dimensions : float or 1-D array
         The dimensions :data:`SHAPE_DIMENSIONS` lists for the shape. [m]
 
@@ -676,8 +689,8 @@ def drag_bounds(shape: str, *, drag_crisis: bool = False, **dimensions: ArrayLik
     UnknownObjectError
         For an unknown shape.
     InputError
-        For a bad dimension (see :func:`surface_area`), or ``drag_crisis`` on a shape other
-        than a sphere.
+        For a bad dimension (see :func:`surface_area`), ``drag_crisis`` on a shape other
+        than a sphere, or ``outline_fill`` outside (0, 1] or on a shape other than irregular.
 
     Notes
     -----
@@ -696,6 +709,14 @@ def drag_bounds(shape: str, *, drag_crisis: bool = False, **dimensions: ArrayLik
     canonical, values = _dimensions(shape, dimensions)
     if drag_crisis and canonical != "sphere":
         raise InputError(f"drag_crisis applies to a sphere only; got shape {canonical}")
+    if outline_fill is not None and canonical != "irregular":
+        raise InputError(f"outline_fill applies to an irregular shape only; got shape {canonical}")
+    fill = np.asarray(IRREGULAR_OUTLINE_FILL if outline_fill is None else outline_fill, dtype=float)
+    if not np.all((fill > 0.0) & (fill <= 1.0)):  # NaN compares False
+        raise InputError(
+            f"outline_fill must be a number > 0 and <= 1; got {np.atleast_1d(fill)[0]:g}",
+            field="outline_fill",
+        )
     area_min, area_max, area_mean = _projected_areas(canonical, values)
     glides = np.zeros(np.shape(area_min), dtype=bool)
 
@@ -739,10 +760,14 @@ def drag_bounds(shape: str, *, drag_crisis: bool = False, **dimensions: ArrayLik
             drag_max = np.maximum(drag_max, face_on)
             basis += " or Cd(aspect) from the plate_normal rows on L W face-on, if larger"
         if canonical == "irregular":
-            drag_min = IRREGULAR_COMPACTNESS_FACTOR * drag_min
+            drag_max = fill * drag_max
+            drag_min = np.minimum(IRREGULAR_COMPACTNESS_FACTOR * drag_min, drag_max)
+            fills = np.unique(np.atleast_1d(fill))
+            fill_text = f"{fills[0]:g}" if fills.size == 1 else "given per row"
             basis += (
                 f", of the bounding box, the minimum and tumbling areas x "
-                f"{IRREGULAR_COMPACTNESS_FACTOR:g} compactness (common practice, no source)"
+                f"{IRREGULAR_COMPACTNESS_FACTOR:g} compactness (common practice, no source), "
+                f"the maximum x outline fill {fill_text}"
             )
         basis += "; tumbling 1.05 S/4 (Cauchy)."
 
