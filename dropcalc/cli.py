@@ -849,7 +849,8 @@ def _zone_objects(
         for object_id in object_ids or []:
             objects.append(zone_object(lib.get(object_id)))
         if items is not None:
-            from dropcalc.analysis.batch import BatchSettings, parse_items, read_table
+            from dropcalc.analysis.batch import BatchSettings
+            from dropcalc.io.items import parse_items, read_table
 
             frame = read_table(items)
             parsed, errors = parse_items(frame, lib, BatchSettings(height=height))

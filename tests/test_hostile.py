@@ -542,7 +542,7 @@ def test_a_streamed_workbook_without_a_declared_range_is_counted_before_loading(
 ) -> None:
     from openpyxl import Workbook
 
-    import dropcalc.analysis.batch as batch
+    import dropcalc.io.items as batch  # the list reader
 
     monkeypatch.setattr(batch, "MAX_LIST_ROWS", 50)  # the real limit takes a minute to write
     book = Workbook(write_only=True)  # writes no <dimension> element

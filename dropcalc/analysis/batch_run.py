@@ -18,17 +18,15 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
-from dropcalc.analysis.batch import (
+from dropcalc.analysis.batch import BatchSettings, error_rows, solve_items
+from dropcalc.errors import InputError, require_file
+from dropcalc.io.items import (
     KNOWN_COLUMNS,
-    BatchSettings,
     _column_name,
     check_columns,
     check_xlsx,
-    error_rows,
     parse_items,
-    solve_items,
 )
-from dropcalc.errors import InputError, require_file
 from dropcalc.model.limits import MAX_LIST_FILE_BYTES, MAX_LIST_ROWS
 
 #: Rows read, solved and sorted at a time.

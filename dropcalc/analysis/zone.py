@@ -50,8 +50,8 @@ from dropcalc.physics.trajectory import FallSolution, solve_falls
 from dropcalc.physics.wind import turbulence_intensity
 
 if TYPE_CHECKING:  # imported where used: a zone needs no plan geometry or library to load
-    from dropcalc.analysis.batch import Item
     from dropcalc.analysis.plan import ExclusionArea, Site
+    from dropcalc.io.items import Item
     from dropcalc.io.library import DropObject, Library
 
 #: Integrator tolerance for zone samples: 1e-6 keeps positions to ~1e-5 relative, far inside the

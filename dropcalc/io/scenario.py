@@ -100,7 +100,7 @@ class Scenario:
     ground_slope: float
     origin: tuple[float, float] | None
     work_areas: tuple[WorkArea, ...]
-    items: Any  # list of dropcalc.analysis.batch.Item
+    items: Any  # list of dropcalc.io.items.Item
     confidence: float
     margin: float
     precision: float
@@ -208,7 +208,7 @@ def load_scenario(path: Path, *, allow_file_references: bool = True) -> Scenario
         message names the file, the line and the key path. A mistake inside a referenced
         objects file is named by its row and column, without quoting the file's content.
     """
-    from dropcalc.analysis.batch import KNOWN_COLUMNS, BatchSettings, parse_items, read_table
+    from dropcalc.io.items import KNOWN_COLUMNS, Defaults, parse_items, read_table
     from dropcalc.io.library import load_library
     from dropcalc.model.limits import (
         CONFIDENCE_RANGE,
@@ -513,7 +513,7 @@ def load_scenario(path: Path, *, allow_file_references: bool = True) -> Scenario
     at_most(raw_objects, MAX_OBJECTS, f"object[{MAX_OBJECTS + 1}]", "objects")
     items = []
     highest = max(e.height for w in areas for e in w.site.edges)
-    settings = BatchSettings(height=highest)
+    settings = Defaults(height=highest)
     import pandas as pd
 
     records = []

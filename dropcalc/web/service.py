@@ -126,8 +126,8 @@ def read_list_bytes(data: bytes, filename: str | None) -> Any:
     InputError
         Naming the file as the user called it.
     """
-    from dropcalc.analysis.batch import read_table
     from dropcalc.errors import require_suffix
+    from dropcalc.io.items import read_table
 
     shown = _decode_name(filename)
     if len(data) > MAX_UPLOAD_BYTES:
@@ -154,7 +154,8 @@ def list_rows(frame: Any) -> tuple[list[dict[str, str]], list[dict[str, Any]]]:
         The good rows as form objects (the cells as typed), and for each bad row
         ``{"row", "label", "id", "message"}`` with the spreadsheet's row number.
     """
-    from dropcalc.analysis.batch import BatchSettings, parse_items
+    from dropcalc.analysis.batch import BatchSettings
+    from dropcalc.io.items import parse_items
 
     items, errors = parse_items(
         frame, library(), BatchSettings(height=LIST_CHECK_HEIGHT), first_row=2
