@@ -11,7 +11,7 @@ from __future__ import annotations
 import re
 import stat
 from pathlib import Path
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, Any
 
 if TYPE_CHECKING:  # numpy is imported where an array is checked: the CLI starts without it
     import numpy as np
@@ -245,6 +245,30 @@ def read_file(path: object, what: str, max_bytes: int) -> bytes:
             f"{what} {shorten(path, 120)}: more than {max_bytes:,} bytes (docs/limits.md)"
         )
     return data
+
+
+def parse_toml(raw: bytes, label: str, what: str) -> tuple[dict[str, Any], str]:
+    """Decode ``raw`` as UTF-8 (a byte-order mark allowed) and parse it as TOML.
+
+    The one place where every TOML input (scenario, site, policy, object library) turns a
+    decoding or syntax problem into a one-line :class:`InputError` starting with ``label``.
+
+    Returns
+    -------
+    tuple of dict and str
+        The parsed document and its text (for readers that locate keys by line).
+    """
+    import tomllib
+
+    try:
+        text = raw.decode("utf-8-sig")
+        return tomllib.loads(text), text
+    except UnicodeDecodeError:
+        raise InputError(f"{label}: not UTF-8 text; save the {what} as UTF-8") from None
+    except tomllib.TOMLDecodeError as exc:
+        raise InputError(f"{label}: not valid TOML: {exc}") from None
+    except RecursionError:  # tomllib recurses once per nested "[" or "{"
+        raise InputError(f"{label}: not valid TOML: arrays or tables nested too deep") from None
 
 
 def require_suffix(path: object, allowed: tuple[str, ...], field: str) -> str:

@@ -36,6 +36,7 @@ from shapely.geometry.polygon import orient
 
 from dropcalc.errors import (
     InputError,
+    parse_toml,
     read_file,
     require_finite_positive,
     require_range,
@@ -687,20 +688,11 @@ def load_site(path: Path) -> SitePlan:
     InputError
         Naming the file and the key for any mistake.
     """
-    import tomllib
-
     from dropcalc.units import parse_quantity
 
     path = Path(path)
     raw = read_file(path, "site file", MAX_TEXT_FILE_BYTES)
-    try:
-        data = tomllib.loads(raw.decode("utf-8-sig"))
-    except UnicodeDecodeError:
-        raise InputError(f"{path}: not UTF-8 text; save the site file as UTF-8") from None
-    except tomllib.TOMLDecodeError as exc:
-        raise InputError(f"{path}: not valid TOML ({exc})") from None
-    except RecursionError:  # tomllib recurses once per nested "[" or "{"
-        raise InputError(f"{path}: not valid TOML (arrays or tables nested too deep)") from None
+    data, _ = parse_toml(raw, str(path), "site file")
     unknown = set(data) - {"origin", "outline", "edge"}
     if unknown:
         raise InputError(

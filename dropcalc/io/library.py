@@ -22,14 +22,13 @@ import difflib
 import functools
 import math
 import re
-import tomllib
 from collections.abc import Callable, Iterable, Iterator, Mapping
 from dataclasses import dataclass, field
 from pathlib import Path
 from types import MappingProxyType
 from typing import Any
 
-from dropcalc.errors import InputError, UnknownObjectError, require_file, shorten
+from dropcalc.errors import InputError, UnknownObjectError, parse_toml, require_file, shorten
 from dropcalc.model.limits import (
     MAX_CELL_CHARACTERS,
     MAX_NAME_CHARACTERS,
@@ -512,16 +511,7 @@ _TABLE_RE = re.compile(r"^\s*\[\[\s*object\s*\]\]")
 
 def _read_toml(path: Path, *, builtin: bool) -> list[DropObject]:
     """Read and validate the objects of one TOML file."""
-    try:
-        text = path.read_text(encoding="utf-8")
-    except UnicodeDecodeError:
-        raise InputError(f"{path.name}: not UTF-8 text; save the file as UTF-8") from None
-    try:
-        document = tomllib.loads(text)
-    except tomllib.TOMLDecodeError as error:
-        raise InputError(f"{path.name}: not valid TOML: {error}") from None
-    except RecursionError:  # tomllib recurses once per nested "[" or "{"
-        raise InputError(f"{path.name}: not valid TOML: arrays nested too deep") from None
+    document, text = parse_toml(path.read_bytes(), path.name, "file")
     lines = text.splitlines()
     starts = [number for number, line in enumerate(lines, start=1) if _TABLE_RE.match(line)]
     unknown = [key for key in document if key != _OBJECT_TABLE]

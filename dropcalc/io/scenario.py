@@ -13,7 +13,6 @@ from __future__ import annotations
 import hashlib
 import math
 import re
-import tomllib
 from collections.abc import Iterator
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -28,7 +27,14 @@ if TYPE_CHECKING:  # loaded with the scenario, in load_scenario
     from dropcalc.physics.scatter import Surface
     from dropcalc.physics.wind import WindSpec
 
-from dropcalc.errors import DropcalcError, InputError, read_file, require_range, shorten
+from dropcalc.errors import (
+    DropcalcError,
+    InputError,
+    parse_toml,
+    read_file,
+    require_range,
+    shorten,
+)
 from dropcalc.model.limits import (
     MAX_EDGES,
     MAX_NAME_CHARACTERS,
@@ -229,15 +235,7 @@ def load_scenario(path: Path, *, allow_file_references: bool = True) -> Scenario
 
     path = Path(path)
     raw_bytes = read_file(path, "scenario", MAX_TEXT_FILE_BYTES)
-    try:
-        text = raw_bytes.decode("utf-8-sig")
-        data = tomllib.loads(text)
-    except UnicodeDecodeError:
-        raise InputError(f"{path.name}: not UTF-8 text; save the scenario as UTF-8") from None
-    except tomllib.TOMLDecodeError as exc:
-        raise InputError(f"{path.name}: not valid TOML: {exc}") from None
-    except RecursionError:  # tomllib recurses once per nested "[" or "{"
-        raise InputError(f"{path.name}: not valid TOML: arrays or tables nested too deep") from None
+    data, text = parse_toml(raw_bytes, path.name, "scenario")
     where = _Where(path, text)
 
     def check_keys(table: dict[str, Any], kind: str, key_path: str) -> None:

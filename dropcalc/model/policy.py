@@ -27,12 +27,11 @@ rule with conditions matches.
 from __future__ import annotations
 
 import math
-import tomllib
 from collections.abc import Sequence
 from dataclasses import dataclass
 from pathlib import Path
 
-from dropcalc.errors import InputError, read_file
+from dropcalc.errors import InputError, parse_toml, read_file
 from dropcalc.model.limits import MAX_TEXT_FILE_BYTES
 from dropcalc.model.reference_levels import REFERENCE_LEVELS
 
@@ -202,14 +201,7 @@ def load_policy(path: Path) -> tuple[ControlRule, ...]:
         Naming the file, the rule number and the key for any mistake.
     """
     raw = read_file(path, "policy file", MAX_TEXT_FILE_BYTES)
-    try:
-        data = tomllib.loads(raw.decode("utf-8-sig"))
-    except UnicodeDecodeError:
-        raise InputError(f"{path}: not UTF-8 text; save the policy file as UTF-8") from None
-    except tomllib.TOMLDecodeError as exc:
-        raise InputError(f"{path}: not valid TOML ({exc})") from None
-    except RecursionError:  # tomllib recurses once per nested "[" or "{"
-        raise InputError(f"{path}: not valid TOML (arrays or tables nested too deep)") from None
+    data, _ = parse_toml(raw, str(path), "policy file")
     raw_rules = data.get("rule")
     if not isinstance(raw_rules, list) or not raw_rules:
         raise InputError(f"{path}: expected one or more [[rule]] tables")
